@@ -1,0 +1,73 @@
+// npm start: PostgreSQL, the mail catcher and the object store on loopback, migrations and the demo seed,
+// a fresh build of the web app, then the API serving web + API on one address. Ctrl-C stops it all.
+import path from 'node:path';
+import { startMailCatcher } from './mail-catcher.js';
+import { startObjectStore } from './object-store.js';
+import { keep, run, stop, tsx, waitForHealth } from './proc.js';
+
+const env = process.env;
+const port = env.PORT ?? '8080';
+const dataDir = env.DATA_DIR ?? path.resolve('.data');
+const url = `http://127.0.0.1:${port}`;
+const appEnv = {
+  NODE_ENV: env.NODE_ENV ?? 'development',
+  APP_URL: env.APP_URL ?? url,
+  WEB_DIST: path.resolve('apps/web/dist'),
+};
+
+async function must(step: string, p: Promise<{ code: number }>) {
+  const { code } = await p;
+  if (code !== 0) {
+    console.error(`beadroll: ${step} failed (exit ${code})`);
+    await shutdown(1);
+  }
+}
+
+let api: ReturnType<typeof keep> | undefined;
+let services: { close(): Promise<void> }[] = [];
+let stopping = false;
+
+async function shutdown(code: number): Promise<never> {
+  if (!stopping) {
+    stopping = true;
+    console.log('\nbeadroll: stopping');
+    await stop(api);
+    await Promise.all(services.map((s) => s.close()));
+    await run('bash', ['docker-free-scripts/pg.sh', 'stop']);
+  }
+  process.exit(code);
+}
+process.on('SIGINT', () => void shutdown(0));
+process.on('SIGTERM', () => void shutdown(0));
+
+await must('PostgreSQL', run('bash', ['docker-free-scripts/pg.sh', 'start']));
+services = [
+  await startMailCatcher({ port: Number(env.SMTP_PORT ?? 2525), dir: path.join(dataDir, 'mail') }),
+  await startObjectStore({ port: Number(env.S3_PORT ?? 4569), dir: path.join(dataDir, 's3'), bucket: env.S3_BUCKET ?? 'beadroll' }),
+];
+console.log(`beadroll: mail catcher on 127.0.0.1:${env.SMTP_PORT}, object store on 127.0.0.1:${env.S3_PORT}`);
+await must('migrations', run(...tsx('apps/api/src/db/migrate.ts'), { env: appEnv }));
+await must('demo seed', run(...tsx('apps/api/src/db/seed.ts'), { env: appEnv }));
+console.log('beadroll: building the web app');
+await must('web build', run(process.execPath, ['node_modules/vite/bin/vite.js', 'build', 'apps/web', '--logLevel', 'warn'], { env: appEnv }));
+api = keep(...tsx('apps/api/src/main.ts'), appEnv);
+api.on('exit', (code) => {
+  if (!stopping) {
+    console.error(`beadroll: the API stopped (exit ${code})`);
+    void shutdown(1);
+  }
+});
+await waitForHealth(`${url}/api/health`);
+
+console.log(`
+Beadroll is running at ${url}
+  mail caught in development: ${url}/dev/mail
+
+Demo accounts (password demo-weld-2026):
+  qa@beadroll-demo.example        QA manager, every shop
+  foreman@beadroll-demo.example   foreman of Vessel Bay and Structural Hall
+  welder@beadroll-demo.example    welder PV-07
+
+Computed ranges and statuses support, and do not replace, the code edition in force, the company's
+quality manual and the responsible inspector.
+Press Ctrl-C to stop.`);
