@@ -1,0 +1,81 @@
+// @beadroll/rules: the single source of truth for Beadroll's computation and its input contracts.
+export * from './schemas/foundation.js';
+
+// input contracts of the domain
+export * from './schemas/common.js';
+export * from './schemas/bend.js';
+export * from './schemas/coupon.js';
+export * from './schemas/continuity.js';
+export { RulesInputError } from './validation/rules-input-error.js';
+export { fieldsOf } from './validation/parse-input.js';
+export { RULES_VERSION } from './version.js';
+
+// units and pipe sizes
+export {
+  MM_PER_INCH,
+  formatLength,
+  formatLengthBoth,
+  inchFraction,
+  limitIn,
+  parseLength,
+  toInches,
+  toMm,
+  type DualSize,
+  type FormatLengthOptions,
+  type Length,
+  type LengthUnit,
+  type ParsedLength,
+} from './units/length.js';
+export { b3610mPipeSizes, pipeSchedules, type PipeSchedule, type PipeSizeRow } from './pipes/b36-10m.js';
+export { normalizeNps, normalizeSchedule, pipeDimensions } from './pipes/pipe-dimensions.js';
+
+// bend tests
+export { criteriaSets } from './bend/criteria-sets.js';
+export {
+  evaluateBendTest,
+  type BendEvaluation,
+  type BendReason,
+  type BendResult,
+  type SpecimenEvaluation,
+} from './bend/evaluate-bend-test.js';
+export {
+  proposeBendSpecimens,
+  type BendSpecimenProposal,
+  type SpecimenKind,
+  type SpecimenSet,
+} from './bend/propose-specimens.js';
+
+// qualified ranges
+export * from './ranges/positions.js';
+export {
+  fNumberInterchange,
+  fNumberRow,
+  type Backing,
+  type FNumberInterchangeRow,
+  type FNumberQualification,
+} from './ranges/f-numbers.js';
+export {
+  positionTables,
+  type LimitSource,
+  type PositionRow,
+  type PositionTable,
+  type PositionTableSet,
+} from './ranges/position-tables.js';
+export { qualifiedRanges, RANGES_NOTICE, type QualifiedRanges } from './ranges/qualified-ranges.js';
+export { type Interval, type RangeLimit } from './ranges/size-ranges.js';
+
+// continuity
+export { addDays, addMonths, addYears, daysBetween, isIsoDate, type IsoDate } from './continuity/calendar.js';
+export {
+  lapseRuleFor,
+  lapseRules,
+  lapsesOnFor,
+  type LapseOptions,
+  type LapseRule,
+} from './continuity/lapse-rules.js';
+export {
+  continuityStatus,
+  DEFAULT_WARN_DAYS,
+  type ContinuityState,
+  type ContinuityStatus,
+} from './continuity/continuity-status.js';
