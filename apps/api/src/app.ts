@@ -1,0 +1,90 @@
+// createApp(deps): the whole HTTP application, without listening — main.ts serves it, tests drive it
+// with supertest. Every dependency (database, mail, object store, clock, logger) comes in from outside.
+import { randomUUID } from 'node:crypto';
+import express, { Router, type Express } from 'express';
+import helmet from 'helmet';
+import cookieParser from 'cookie-parser';
+import { pinoHttp } from 'pino-http';
+import type { AppDeps } from './lib/context.js';
+import { apiNotFound, errorHandler } from './lib/errors.js';
+import { createAuthenticator } from './lib/auth.js';
+import { mountWeb } from './lib/web.js';
+import { loadActor } from './auth/auth.repository.js';
+import { healthRouter } from './health/health.router.js';
+import { authRouter } from './auth/auth.router.js';
+import { shopsRouter } from './shops/shops.router.js';
+import { peopleRouter } from './people/people.router.js';
+import { weldersRouter } from './welders/welders.router.js';
+import { auditRouter } from './audit/audit.router.js';
+import { devMailRouter } from './dev-mail/dev-mail.router.js';
+
+export interface CreateAppOptions extends AppDeps {
+  /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
+  webDist?: string;
+}
+
+const JSON_LIMIT = '100kb';
+
+export function createApp(opts: CreateAppOptions): Express {
+  const { webDist, ...deps } = opts;
+  const { config, logger, dataSource } = deps;
+  const app = express();
+  app.disable('x-powered-by');
+
+  app.use(
+    pinoHttp({
+      logger,
+      genReqId(req, res) {
+        const incoming = req.headers['x-request-id'];
+        const id = typeof incoming === 'string' && /^[\w.-]{1,64}$/.test(incoming) ? incoming : randomUUID();
+        res.setHeader('X-Request-Id', id);
+        return id;
+      },
+      customLogLevel: (_req, res, err) =>
+        err || res.statusCode >= 500 ? 'error' : res.statusCode >= 400 ? 'warn' : 'info',
+      serializers: {
+        req: (req: { id: unknown; method: string; url: string }) => ({
+          id: req.id,
+          method: req.method,
+          url: req.url,
+        }),
+        res: (res: { statusCode: number }) => ({ statusCode: res.statusCode }),
+      },
+    }),
+  );
+  // On plain http (loopback) an upgrade-to-https policy and HSTS would only break the page.
+  const https = config.appUrl.startsWith('https://');
+  app.use(
+    helmet({
+      strictTransportSecurity: https,
+      contentSecurityPolicy: { directives: { upgradeInsecureRequests: https ? [] : null } },
+    }),
+  );
+  app.use(cookieParser());
+
+  const auth = createAuthenticator(config, (userId) => loadActor(dataSource.manager, userId));
+
+  const api = Router();
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'no-store');
+    next();
+  });
+  api.use(express.json({ limit: JSON_LIMIT }));
+  api.use(auth.initialize);
+  api.use(healthRouter(deps));
+  api.use(authRouter(deps, auth.requireAuth));
+  api.use('/shops', shopsRouter(deps, auth.requireAuth));
+  api.use('/people', peopleRouter(deps, auth.requireAuth));
+  api.use('/welders', weldersRouter(deps, auth.requireAuth));
+  api.use('/audit', auditRouter(deps, auth.requireAuth));
+  if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  if (webDist) mountWeb(app, webDist);
+  app.use((_req, res) => {
+    res.status(404).type('text/plain').send('Not found');
+  });
+  app.use(errorHandler(logger));
+  return app;
+}

@@ -1,0 +1,122 @@
+// Sign-ins and link tokens in PostgreSQL. Plain objects out.
+import type { EntityManager } from 'typeorm';
+import type { Role } from '@beadroll/rules';
+import type { Actor } from '../lib/scope.js';
+import type { TokenPurpose } from './auth-token.entity.js';
+import { AuthTokenEntity } from './auth-token.entity.js';
+
+export interface SignInRow {
+  id: string;
+  organizationId: string;
+  passwordHash: string | null;
+  active: boolean;
+}
+
+export async function findSignIn(db: EntityManager, email: string): Promise<SignInRow | null> {
+  const rows: SignInRow[] = await db.query(
+    `SELECT id, organization_id AS "organizationId", password_hash AS "passwordHash", active
+       FROM users WHERE email = $1`,
+    [email],
+  );
+  return rows[0] ?? null;
+}
+
+/** The caller as every request needs it, in one query: role, welder record and visible shop ids. */
+export async function loadActor(db: EntityManager, userId: string): Promise<Actor | null> {
+  const rows: Actor[] = await db.query(
+    `SELECT u.id, u.organization_id AS "organizationId", u.role, u.welder_id AS "welderId",
+            CASE u.role
+              WHEN 'foreman' THEN ARRAY(SELECT fs.shop_id::text FROM foreman_shops fs WHERE fs.user_id = u.id ORDER BY 1)
+              WHEN 'welder' THEN ARRAY(SELECT w.home_shop_id::text FROM welders w WHERE w.id = u.welder_id)
+              ELSE ARRAY[]::text[]
+            END AS "shopIds"
+       FROM users u
+      WHERE u.id = $1 AND u.active AND u.password_hash IS NOT NULL`,
+    [userId],
+  );
+  return rows[0] ?? null;
+}
+
+export interface MeRow {
+  id: string;
+  email: string;
+  name: string;
+  role: Role;
+  welderId: string | null;
+  organization: { id: string; name: string };
+}
+
+export async function findMe(db: EntityManager, userId: string): Promise<MeRow | null> {
+  const rows: MeRow[] = await db.query(
+    `SELECT u.id, u.email, u.name, u.role, u.welder_id AS "welderId",
+            json_build_object('id', o.id, 'name', o.name) AS organization
+       FROM users u JOIN organizations o ON o.id = u.organization_id
+      WHERE u.id = $1`,
+    [userId],
+  );
+  return rows[0] ?? null;
+}
+
+export async function recordSignIn(db: EntityManager, userId: string, at: Date): Promise<void> {
+  await db.query(`UPDATE users SET last_sign_in_at = $2 WHERE id = $1`, [userId, at]);
+}
+
+export async function setPasswordHash(
+  db: EntityManager,
+  userId: string,
+  passwordHash: string,
+): Promise<void> {
+  await db.query(`UPDATE users SET password_hash = $2 WHERE id = $1`, [userId, passwordHash]);
+}
+
+/** Voids every unused link of the user (of one purpose, or all), so only the newest link works. */
+export async function voidTokens(
+  db: EntityManager,
+  userId: string,
+  at: Date,
+  purpose?: TokenPurpose,
+): Promise<void> {
+  await db.query(
+    `UPDATE auth_tokens SET used_at = $2 WHERE user_id = $1 AND used_at IS NULL AND ($3::text IS NULL OR purpose = $3)`,
+    [userId, at, purpose ?? null],
+  );
+}
+
+export async function insertToken(
+  db: EntityManager,
+  token: { userId: string; tokenHash: string; purpose: TokenPurpose; expiresAt: Date; createdAt: Date },
+): Promise<void> {
+  await db.insert(AuthTokenEntity, token);
+}
+
+export interface ValidTokenRow {
+  tokenId: string;
+  purpose: TokenPurpose;
+  expiresAt: Date;
+  userId: string;
+  organizationId: string;
+  email: string;
+  name: string;
+  role: Role;
+  welderId: string | null;
+  hadPassword: boolean;
+}
+
+/** A token that is unused, unexpired at `now` and belongs to an active account; optionally row-locked. */
+export async function findValidToken(
+  db: EntityManager,
+  tokenHash: string,
+  now: Date,
+  lock = false,
+): Promise<ValidTokenRow | null> {
+  const rows: ValidTokenRow[] = await db.query(
+    `SELECT t.id AS "tokenId", t.purpose, t.expires_at AS "expiresAt", u.id AS "userId",
+            u.organization_id AS "organizationId", u.email, u.name, u.role, u.welder_id AS "welderId",
+            (u.password_hash IS NOT NULL) AS "hadPassword"
+       FROM auth_tokens t JOIN users u ON u.id = t.user_id
+      WHERE t.token_hash = $1 AND t.used_at IS NULL AND t.expires_at > $2 AND u.active
+      ${lock ? 'FOR UPDATE OF t, u' : ''}`,
+    [tokenHash, now],
+  );
+  return rows[0] ?? null;
+}

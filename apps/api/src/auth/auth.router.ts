@@ -1,0 +1,71 @@
+// /api/auth/* and /api/me.
+import { Router, type RequestHandler } from 'express';
+import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
+import { loginInput, passwordResetRequestInput, setPasswordInput } from '@beadroll/rules';
+import type { AppDeps } from '../lib/context.js';
+import { pathParam } from '../lib/params.js';
+import { AppError } from '../lib/errors.js';
+import { actorOf, clearSessionCookie, setSessionCookie } from '../lib/auth.js';
+import * as auth from './auth.service.js';
+
+/** Counts attempts per client address and e-mail; a successful sign-in does not count. */
+function attemptLimiter(limit: number, message: string, countSuccesses = false): RequestHandler {
+  return rateLimit({
+    windowMs: 15 * 60 * 1000,
+    limit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    skipSuccessfulRequests: !countSuccesses,
+    keyGenerator: (req) => {
+      const body = req.body as { email?: unknown } | undefined;
+      const email = typeof body?.email === 'string' ? body.email.trim().toLowerCase() : '';
+      return `${ipKeyGenerator(req.ip ?? '')}|${email}`;
+    },
+    handler: (_req, _res, next) => next(new AppError('rate_limited', message)),
+  });
+}
+
+export function authRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
+  const router = Router();
+  const loginLimiter = attemptLimiter(
+    deps.config.loginRateLimit,
+    'Too many sign-in attempts; wait 15 minutes and try again',
+  );
+  const resetLimiter = attemptLimiter(
+    deps.config.loginRateLimit,
+    'Too many reset requests; wait 15 minutes and try again',
+    true,
+  );
+
+  router.post('/auth/login', loginLimiter, async (req, res) => {
+    const { token, me } = await auth.login(deps, loginInput.parse(req.body));
+    setSessionCookie(res, deps.config, token);
+    res.json(me);
+  });
+
+  router.post('/auth/logout', (_req, res) => {
+    clearSessionCookie(res, deps.config);
+    res.status(204).end();
+  });
+
+  router.get('/me', requireAuth, async (req, res) => {
+    res.json(await auth.getMe(deps, actorOf(req)));
+  });
+
+  router.post('/auth/password-reset', resetLimiter, async (req, res) => {
+    await auth.requestPasswordReset(deps, passwordResetRequestInput.parse(req.body).email);
+    res.status(202).json({ status: 'accepted' });
+  });
+
+  router.get('/auth/tokens/:token', async (req, res) => {
+    res.json(await auth.getTokenInfo(deps, pathParam(req, 'token')));
+  });
+
+  router.post('/auth/set-password', async (req, res) => {
+    const { token, me } = await auth.setPassword(deps, setPasswordInput.parse(req.body));
+    setSessionCookie(res, deps.config, token);
+    res.json(me);
+  });
+
+  return router;
+}

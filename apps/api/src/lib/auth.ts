@@ -1,0 +1,117 @@
+// Sessions: a signed JWT (jsonwebtoken) in an httpOnly, SameSite=Lax cookie, read back by a passport-jwt
+// strategy that reloads the caller from the database on every request — so a deactivated account or a
+// changed shop assignment takes effect at once. `requireRole` is the one place roles are checked.
+import type { RequestHandler, Request, Response } from 'express';
+import jwt from 'jsonwebtoken';
+import passport from 'passport';
+import { Strategy as JwtStrategy } from 'passport-jwt';
+import type { Role } from '@beadroll/rules';
+import type { Config } from '../config.js';
+import { AppError } from './errors.js';
+import type { Actor } from './scope.js';
+
+declare global {
+  // eslint-disable-next-line @typescript-eslint/no-namespace
+  namespace Express {
+    // passport's req.user is our Actor.
+    // eslint-disable-next-line @typescript-eslint/no-empty-object-type
+    interface User extends Actor {}
+  }
+}
+
+export const SESSION_COOKIE = 'beadroll_session';
+const SESSION_HOURS = 12;
+const ISSUER = 'beadroll';
+
+interface SessionClaims {
+  sub: string;
+  org: string;
+}
+
+export function signSession(
+  config: Pick<Config, 'jwtSecret'>,
+  actor: { id: string; organizationId: string },
+): string {
+  return jwt.sign({ org: actor.organizationId }, config.jwtSecret, {
+    subject: actor.id,
+    issuer: ISSUER,
+    algorithm: 'HS256',
+    expiresIn: `${SESSION_HOURS}h`,
+  });
+}
+
+export function setSessionCookie(res: Response, config: Pick<Config, 'appUrl'>, token: string): void {
+  res.cookie(SESSION_COOKIE, token, {
+    httpOnly: true,
+    sameSite: 'lax',
+    secure: config.appUrl.startsWith('https://'),
+    path: '/',
+    maxAge: SESSION_HOURS * 3600 * 1000,
+  });
+}
+
+export function clearSessionCookie(res: Response, config: Pick<Config, 'appUrl'>): void {
+  res.clearCookie(SESSION_COOKIE, {
+    httpOnly: true,
+    sameSite: 'lax',
+    secure: config.appUrl.startsWith('https://'),
+    path: '/',
+  });
+}
+
+/** A passport instance of our own per app, so that two apps in one process (tests) never share state. */
+export function createAuthenticator(
+  config: Pick<Config, 'jwtSecret'>,
+  loadActor: (userId: string) => Promise<Actor | null>,
+) {
+  const authenticator = new passport.Passport();
+  authenticator.use(
+    'jwt',
+    new JwtStrategy(
+      {
+        jwtFromRequest: (req: Request) => {
+          const cookies = req.cookies as Record<string, string | undefined> | undefined;
+          return cookies?.[SESSION_COOKIE] ?? null;
+        },
+        secretOrKey: config.jwtSecret,
+        issuer: ISSUER,
+        algorithms: ['HS256'],
+      },
+      (claims: SessionClaims, done: (err: unknown, user?: Actor | false) => void) => {
+        loadActor(claims.sub).then(
+          (actor) => done(null, actor && actor.organizationId === claims.org ? actor : false),
+          (err: unknown) => done(err),
+        );
+      },
+    ),
+  );
+
+  const requireAuth: RequestHandler = (req, res, next) => {
+    const handler = authenticator.authenticate(
+      'jwt',
+      { session: false },
+      (err: unknown, user: Actor | false) => {
+        if (err) return next(err);
+        if (!user) return next(new AppError('unauthenticated', 'Sign in to continue'));
+        req.user = user;
+        next();
+      },
+    ) as RequestHandler;
+    handler(req, res, next);
+  };
+  return { initialize: authenticator.initialize() as RequestHandler, requireAuth };
+}
+
+export function requireRole(...roles: Role[]): RequestHandler {
+  return (req, _res, next) => {
+    if (!req.user) return next(new AppError('unauthenticated', 'Sign in to continue'));
+    if (!roles.includes(req.user.role)) return next(AppError.forbidden());
+    next();
+  };
+}
+
+/** The caller of an authenticated route. */
+export function actorOf(req: Request): Actor {
+  if (!req.user) throw new AppError('unauthenticated', 'Sign in to continue');
+  return req.user;
+}

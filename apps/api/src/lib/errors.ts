@@ -1,0 +1,130 @@
+// The one error class of the API and the one handler that turns any error into the JSON error body
+// `{ error: { code, message, fields? } }`. Unknown errors are logged with the request id and never leak
+// a stack trace or an internal message.
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { ZodError } from 'zod';
+import type { ErrorBody } from '@beadroll/rules';
+import type { Logger } from './logger.js';
+
+export type ErrorCode = ErrorBody['error']['code'];
+
+const statusOf: Record<ErrorCode, number> = {
+  validation: 400,
+  unauthenticated: 401,
+  forbidden: 403,
+  not_found: 404,
+  conflict: 409,
+  payload_too_large: 413,
+  rate_limited: 429,
+  internal: 500,
+  unavailable: 503,
+};
+
+export class AppError extends Error {
+  readonly status: number;
+  constructor(
+    readonly code: ErrorCode,
+    message: string,
+    status?: number,
+    readonly fields?: Record<string, string>,
+  ) {
+    super(message);
+    this.name = 'AppError';
+    this.status = status ?? statusOf[code];
+  }
+
+  static validation(fields: Record<string, string>, message = 'Check the highlighted fields') {
+    return new AppError('validation', message, 400, fields);
+  }
+  static notFound(what = 'record') {
+    return new AppError('not_found', `No such ${what}`);
+  }
+  static forbidden(message = 'Your role does not allow this') {
+    return new AppError('forbidden', message);
+  }
+  static conflict(message: string) {
+    return new AppError('conflict', message);
+  }
+}
+
+/** Field map from a zod error: dotted paths, the first message for each path. */
+export function fieldsFromZod(err: ZodError): Record<string, string> {
+  const fields: Record<string, string> = {};
+  for (const issue of err.issues) {
+    const key = issue.path.length > 0 ? issue.path.map(String).join('.') : '_body';
+    fields[key] ??= issue.message;
+  }
+  return fields;
+}
+
+// PostgreSQL and driver errors that mean "the database is not reachable right now".
+const unavailableCodes = new Set([
+  'ECONNREFUSED',
+  'ECONNRESET',
+  'ETIMEDOUT',
+  'EPIPE',
+  '57P01',
+  '57P02',
+  '57P03',
+  '08000',
+  '08001',
+  '08003',
+  '08006',
+]);
+
+export function isDatabaseUnavailable(err: unknown): boolean {
+  if (!(err instanceof Error)) return false;
+  const e = err as Error & { code?: string; driverError?: { code?: string } };
+  if (e.code && unavailableCodes.has(e.code)) return true;
+  if (e.driverError?.code && unavailableCodes.has(e.driverError.code)) return true;
+  return /Connection terminated|connect ECONNREFUSED|timeout exceeded when trying to connect|Driver not Connected|Cannot use a pool after calling end/i.test(
+    e.message,
+  );
+}
+
+export function toAppError(err: unknown): AppError | null {
+  if (err instanceof AppError) return err;
+  if (err instanceof ZodError) return AppError.validation(fieldsFromZod(err));
+  if (typeof err === 'object' && err !== null && 'type' in err) {
+    // body-parser errors carry a `type`.
+    switch (err.type) {
+      case 'entity.parse.failed':
+        return new AppError('validation', 'The request body is not valid JSON', 400, {
+          _body: 'Not valid JSON',
+        });
+      case 'entity.too.large':
+        return new AppError('payload_too_large', 'The request body is too large');
+      case 'encoding.unsupported':
+      case 'charset.unsupported':
+        return new AppError('validation', 'The request body encoding is not supported');
+    }
+  }
+  if (isDatabaseUnavailable(err))
+    return new AppError('unavailable', 'The database is not reachable; try again shortly');
+  return null;
+}
+
+export function errorBody(err: AppError): ErrorBody {
+  return { error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } };
+}
+
+export function errorHandler(logger: Logger): ErrorRequestHandler {
+  return (err: unknown, req, res, next) => {
+    if (res.headersSent) return next(err);
+    const known = toAppError(err);
+    const requestId = typeof req.id === 'string' || typeof req.id === 'number' ? String(req.id) : '';
+    if (known) {
+      if (known.status >= 500) logger.warn({ err, requestId }, known.message);
+      res.status(known.status).json(errorBody(known));
+      return;
+    }
+    logger.error({ err, requestId }, 'unhandled error');
+    res.status(500).json({
+      error: { code: 'internal', message: `Something went wrong on our side (reference ${requestId})` },
+    } satisfies ErrorBody);
+  };
+}
+
+export const apiNotFound: RequestHandler = (req, _res, next) => {
+  next(new AppError('not_found', `No API route ${req.method} ${req.baseUrl}${req.path}`));
+};
