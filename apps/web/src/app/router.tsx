@@ -1,0 +1,82 @@
+// Every screen of the web app, each loaded on first visit. The signed-in part sits under one layout
+// whose loader asks who is signed in; a 401 from any later request sends the person back to sign in.
+import { useQueryClient, type QueryClient } from '@tanstack/react-query';
+import { useEffect, useMemo, type ComponentType } from 'react';
+import { createBrowserRouter, redirect, RouterProvider } from 'react-router-dom';
+import { LoadingState } from '@/components/ui/states';
+import { paths } from '@/config/paths';
+import { setUnauthenticatedHandler } from '@/lib/api-client';
+import { homeFor, meQuery, requireUser, returnPath } from '@/lib/auth';
+
+type RouteModule = { default: ComponentType };
+const page = (load: () => Promise<RouteModule>) => async () => ({ Component: (await load()).default });
+
+const opening = <LoadingState label="Opening Beadroll…" />;
+
+export function createRouter(queryClient: QueryClient) {
+  return createBrowserRouter([
+    {
+      path: paths.signIn.path,
+      hydrateFallbackElement: opening,
+      loader: async () => {
+        const me = await queryClient.ensureQueryData(meQuery).catch(() => null);
+        return me ? redirect(homeFor(me)) : null;
+      },
+      lazy: page(() => import('./routes/auth/sign-in')),
+    },
+    { path: paths.setPassword.path, lazy: page(() => import('./routes/auth/set-password')) },
+    { path: paths.forgotPassword.path, lazy: page(() => import('./routes/auth/forgot-password')) },
+    { path: paths.devMail.path, lazy: page(() => import('./routes/dev/mail')) },
+    { path: paths.devMailMessage.path, lazy: page(() => import('./routes/dev/mail-message')) },
+    {
+      id: 'app',
+      path: '/',
+      hydrateFallbackElement: opening,
+      loader: ({ request }) => requireUser(queryClient, request),
+      lazy: async () => {
+        const module = await import('./routes/app/root');
+        return { Component: module.default, ErrorBoundary: module.RootErrorBoundary };
+      },
+      children: [
+        {
+          // Errors of one screen show inside the shell, so the navigation stays usable.
+          lazy: async () => ({ ErrorBoundary: (await import('./routes/app/route-error')).default }),
+          children: [
+        {
+          index: true,
+          loader: async () => {
+            const me = await queryClient.ensureQueryData(meQuery);
+            return me?.role === 'welder' ? redirect(paths.myQualifications.href()) : null;
+          },
+          lazy: page(() => import('./routes/app/overview')),
+        },
+        { path: paths.myQualifications.path, lazy: page(() => import('./routes/app/my-qualifications')) },
+        { path: paths.welders.path, lazy: page(() => import('./routes/app/welders')) },
+        { path: paths.welder.path, lazy: page(() => import('./routes/app/welder')) },
+        { path: paths.shops.path, lazy: page(() => import('./routes/app/shops')) },
+        { path: paths.people.path, lazy: page(() => import('./routes/app/people')) },
+        { path: paths.audit.path, lazy: page(() => import('./routes/app/audit')) },
+        { path: '*', lazy: page(() => import('./routes/app/not-found')) },
+          ],
+        },
+      ],
+    },
+  ]);
+}
+
+export function AppRouter() {
+  const queryClient = useQueryClient();
+  const router = useMemo(() => createRouter(queryClient), [queryClient]);
+
+  useEffect(() => {
+    setUnauthenticatedHandler(() => {
+      const here = new URL(window.location.href);
+      if (here.pathname === paths.signIn.path) return;
+      queryClient.setQueryData(meQuery.queryKey, null);
+      void router.navigate(paths.signIn.href(returnPath(here)), { replace: true });
+    });
+    return () => setUnauthenticatedHandler(null);
+  }, [queryClient, router]);
+
+  return <RouterProvider router={router} />;
+}
