@@ -90,6 +90,7 @@ if (wanted('typecheck')) await suite('typecheck', 'npm', ['run', '--silent', 'ty
 if (wanted('lint')) await suite('lint', 'npm', ['run', '--silent', 'lint']);
 if (wanted('unit')) {
   await vitestSuite('unit:rules', ['--root', 'packages/rules']);
+  await vitestSuite('unit:api', ['--root', 'apps/api']);
   await vitestSuite('unit:web', ['--root', 'apps/web']);
 }
 
