@@ -1,0 +1,239 @@
+// Request and response contracts of the qualification records (issue 4): the WPS register, test coupons
+// with their examination, certified qualifications (WPQs), uploads and the public verify page.
+// The API parses request bodies with these; the web resolves its forms and parses responses with them.
+import { z } from 'zod';
+import { codeIdSchema, criteriaIdSchema, isoDateSchema, positiveLengthSchema, lengthSchema } from './common.js';
+import { couponSchema, processes, transferModes, progressions } from './coupon.js';
+import { bendSpecimenKinds, discontinuityTypes } from './bend.js';
+import { weldingPositions } from '../ranges/positions.js';
+
+const uuid = z.string().uuid('Not a valid id');
+const text = (max: number) => z.string().trim().max(max, `At most ${max} characters`);
+const required = (max: number) => text(max).min(1, 'Required');
+
+// ---- uploads ----------------------------------------------------------------------------------------
+
+export const uploadKinds = ['wps-document', 'specimen-photo', 'examination-report', 'other'] as const;
+export const uploadSchema = z.object({
+  id: z.string(),
+  fileName: z.string(),
+  contentType: z.string(),
+  size: z.number().int(),
+  kind: z.enum(uploadKinds),
+  createdAt: z.string(),
+});
+export type Upload = z.infer<typeof uploadSchema>;
+
+// ---- procedures (WPS register) ----------------------------------------------------------------------
+
+export const procedureStatuses = ['active', 'superseded'] as const;
+
+export const procedureInput = z.object({
+  number: required(40),
+  revision: required(12),
+  code: codeIdSchema,
+  processes: z.array(z.enum(processes)).min(1, 'Choose at least one process').max(4),
+  /** Base metal P-Numbers (or ISO material groups) as written on the WPS, e.g. ['1'] or ['8', '1']. */
+  pNumbers: z.array(required(12)).max(6).default([]),
+  fNumber: z.number().int().min(1).max(99).nullable().optional(),
+  positions: z.array(z.enum(weldingPositions)).max(4).default([]),
+  thicknessMin: positiveLengthSchema.nullable().optional(),
+  thicknessMax: positiveLengthSchema.nullable().optional(),
+  status: z.enum(procedureStatuses).default('active'),
+  documentUploadId: uuid.nullable().optional(),
+  notes: text(2000).optional().default(''),
+});
+export type ProcedureInput = z.input<typeof procedureInput>;
+
+export const procedureUpdateInput = procedureInput.partial().extend({ version: z.number().int().min(1) });
+export type ProcedureUpdateInput = z.input<typeof procedureUpdateInput>;
+
+export const procedureSchema = z.object({
+  id: z.string(),
+  number: z.string(),
+  revision: z.string(),
+  code: codeIdSchema,
+  processes: z.array(z.enum(processes)),
+  pNumbers: z.array(z.string()),
+  fNumber: z.number().nullable(),
+  positions: z.array(z.enum(weldingPositions)),
+  thicknessMin: lengthSchema.nullable(),
+  thicknessMax: lengthSchema.nullable(),
+  status: z.enum(procedureStatuses),
+  document: uploadSchema.nullable(),
+  notes: z.string(),
+  version: z.number().int(),
+  createdAt: z.string(),
+});
+export type Procedure = z.infer<typeof procedureSchema>;
+
+export const procedureListQuery = z.object({
+  code: codeIdSchema.optional(),
+  process: z.enum(processes).optional(),
+  status: z.enum([...procedureStatuses, 'all']).optional().default('all'),
+  q: z.string().trim().max(60).optional(),
+});
+
+// ---- coupons (a performance qualification test and its examination) -------------------------------
+
+export const recordedDiscontinuitySchema = z.object({
+  /** The size exactly as typed ('3/16', '1-1/4 in', '4 mm'), kept for the record. */
+  sizeText: required(30),
+  /** The parsed size (parseLength of sizeText); the server re-parses and refuses a mismatch. */
+  size: lengthSchema,
+  location: z.enum(['surface', 'corner'], { error: 'Location must be surface or corner' }),
+  type: z.enum(discontinuityTypes).optional(),
+  fusionRelated: z.boolean().optional().default(false),
+});
+
+export const recordedSpecimenSchema = z.object({
+  label: text(40).optional(),
+  kind: z.enum(bendSpecimenKinds, { error: 'Kind must be face, root or side' }),
+  discontinuities: z.array(recordedDiscontinuitySchema).max(100).default([]),
+  photoUploadId: uuid.nullable().optional(),
+});
+
+export const examinationResults = ['accept', 'reject', 'replace-specimen'] as const;
+
+export const examinationInput = z.discriminatedUnion('method', [
+  z.object({
+    method: z.literal('bend'),
+    criteria: criteriaIdSchema,
+    specimens: z.array(recordedSpecimenSchema).min(1, 'Add at least one bend specimen').max(20),
+  }),
+  z.object({
+    method: z.enum(['radiography', 'ultrasonic']),
+    result: z.enum(['accept', 'reject'], { error: 'Record the examination result' }),
+    reportNumber: text(60).optional().default(''),
+    reportUploadId: uuid.nullable().optional(),
+  }),
+]);
+export type ExaminationInput = z.input<typeof examinationInput>;
+
+export const couponRecordInput = z.object({
+  welderId: uuid,
+  shopId: uuid,
+  procedureId: uuid,
+  testedOn: isoDateSchema,
+  coupon: couponSchema,
+  /** Pipe given by size: the form fills outsideDiameter and thickness from pipeDimensions. */
+  pipe: z.object({ nps: required(8), schedule: required(8) }).nullable().optional(),
+  pNumbers: z.array(required(12)).max(6).default([]),
+  examiner: z.object({ name: required(120), certificateNumber: text(60).default('') }),
+  labReportNumber: text(60).default(''),
+  visual: z.enum(['accept', 'reject'], { error: 'Record the visual examination result' }),
+  examination: examinationInput,
+  /** What the person recording it saw as the verdict; the server recomputes and refuses a mismatch. */
+  claimedResult: z.enum(examinationResults).optional(),
+  notes: text(2000).default(''),
+});
+export type CouponRecordInput = z.input<typeof couponRecordInput>;
+
+export const couponReasonSchema = z.object({ clause: z.string(), message: z.string() });
+
+export const couponRecordSchema = z.object({
+  id: z.string(),
+  welder: z.object({ id: z.string(), name: z.string(), stamp: z.string() }),
+  shop: z.object({ id: z.string(), name: z.string(), code: z.string() }),
+  procedure: z.object({ id: z.string(), number: z.string(), revision: z.string() }),
+  testedOn: z.string(),
+  coupon: couponSchema,
+  pipe: z.object({ nps: z.string(), schedule: z.string() }).nullable(),
+  pNumbers: z.array(z.string()),
+  examiner: z.object({ name: z.string(), certificateNumber: z.string() }),
+  labReportNumber: z.string(),
+  visual: z.enum(['accept', 'reject']),
+  examination: z.discriminatedUnion('method', [
+    z.object({
+      method: z.literal('bend'),
+      criteria: criteriaIdSchema,
+      specimens: z.array(
+        recordedSpecimenSchema.extend({
+          result: z.enum(examinationResults),
+          reasons: z.array(couponReasonSchema),
+          photo: uploadSchema.nullable(),
+        }),
+      ),
+    }),
+    z.object({
+      method: z.enum(['radiography', 'ultrasonic']),
+      result: z.enum(['accept', 'reject']),
+      reportNumber: z.string(),
+      report: uploadSchema.nullable(),
+    }),
+  ]),
+  /** The server's verdict: visual and examination together. */
+  result: z.enum(examinationResults),
+  reasons: z.array(couponReasonSchema),
+  criteriaId: criteriaIdSchema.nullable(),
+  rulesVersion: z.string(),
+  /** The qualification certified from this coupon, if any. */
+  qualificationId: z.string().nullable(),
+  notes: z.string(),
+  version: z.number().int(),
+  createdAt: z.string(),
+  recordedBy: z.object({ id: z.string(), name: z.string() }).nullable(),
+});
+export type CouponRecord = z.infer<typeof couponRecordSchema>;
+
+// ---- qualifications (certified WPQs) ----------------------------------------------------------------
+
+export const certifyInput = z.object({
+  certifiedOn: isoDateSchema,
+  /** The coupon version the certifier looked at; a stale one gives 409. */
+  version: z.number().int().min(1),
+});
+export type CertifyInput = z.infer<typeof certifyInput>;
+
+export const revokeInput = z.object({
+  revokedOn: isoDateSchema,
+  reason: required(500),
+});
+export type RevokeInput = z.infer<typeof revokeInput>;
+
+export const qualificationStates = ['current', 'lapsing', 'lapsed', 'revoked'] as const;
+
+export const qualificationSchema = z.object({
+  id: z.string(),
+  welder: z.object({ id: z.string(), name: z.string(), stamp: z.string() }),
+  couponId: z.string(),
+  code: codeIdSchema,
+  process: z.enum(processes),
+  transferMode: z.enum(transferModes).nullable(),
+  progression: z.enum(progressions).nullable(),
+  /** The qualifiedRanges output stored at certification (with its limits and clauses). */
+  ranges: z.record(z.string(), z.unknown()),
+  certifiedOn: z.string(),
+  certifiedBy: z.object({ id: z.string(), name: z.string() }),
+  rulesVersion: z.string(),
+  status: z.object({
+    state: z.enum(qualificationStates),
+    lapsesOn: z.string(),
+    daysLeft: z.number().int(),
+    lastEvidence: z.string(),
+  }),
+  revokedOn: z.string().nullable(),
+  revokedReason: z.string().nullable(),
+  supersededById: z.string().nullable(),
+  version: z.number().int(),
+});
+export type Qualification = z.infer<typeof qualificationSchema>;
+
+// ---- public verify page -----------------------------------------------------------------------------
+
+export const verifySchema = z.object({
+  welder: z.object({ name: z.string(), stamp: z.string() }),
+  company: z.string(),
+  asOf: z.string(),
+  qualifications: z.array(
+    z.object({
+      code: codeIdSchema,
+      process: z.enum(processes),
+      state: z.enum(qualificationStates),
+      lapsesOn: z.string(),
+      summary: z.string(),
+    }),
+  ),
+  notice: z.string(),
+});
+export type VerifyView = z.infer<typeof verifySchema>;
