@@ -67,5 +67,5 @@ export async function waitForHealth(url: string, timeoutMs = 60_000): Promise<vo
 
 export const tsx = (script: string, ...args: string[]): [string, string[]] => [
   process.execPath,
-  ['node_modules/tsx/dist/cli.mjs', script, ...args],
+  ['--import', 'tsx', script, ...args],
 ];

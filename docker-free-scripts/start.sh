@@ -4,4 +4,4 @@ set -euo pipefail
 cd "$(dirname "$0")/.."
 bash docker-free-scripts/install.sh
 source docker-free-scripts/env.sh
-exec node node_modules/tsx/dist/cli.mjs docker-free-scripts/start.ts
+exec node --import tsx docker-free-scripts/start.ts

@@ -23,18 +23,21 @@ async function must(step: string, p: Promise<{ code: number }>) {
   }
 }
 
-let api: ReturnType<typeof keep> | undefined;
+// Filled in as each part starts, so that Ctrl-C at any moment stops what is running.
+const running: { api?: ReturnType<typeof keep> } = {};
 let services: { close(): Promise<void> }[] = [];
-let stopping = false;
+let stopping: Promise<void> | undefined;
 
+// Ctrl-C reaches this process more than once (the terminal's process group and npm's forwarding):
+// every call waits for the same orderly stop.
 async function shutdown(code: number): Promise<never> {
-  if (!stopping) {
-    stopping = true;
+  stopping ??= (async () => {
     console.log('\nbeadroll: stopping');
-    await stop(api);
+    await stop(running.api);
     await Promise.all(services.map((s) => s.close()));
     await run('bash', ['docker-free-scripts/pg.sh', 'stop']);
-  }
+  })();
+  await stopping;
   process.exit(code);
 }
 process.on('SIGINT', () => void shutdown(0));
@@ -50,7 +53,8 @@ await must('migrations', run(...tsx('apps/api/src/db/migrate.ts'), { env: appEnv
 await must('demo seed', run(...tsx('apps/api/src/db/seed.ts'), { env: appEnv }));
 console.log('beadroll: building the web app');
 await must('web build', run(process.execPath, ['node_modules/vite/bin/vite.js', 'build', 'apps/web', '--logLevel', 'warn'], { env: appEnv }));
-api = keep(...tsx('apps/api/src/main.ts'), appEnv);
+const api = keep(...tsx('apps/api/src/main.ts'), appEnv);
+running.api = api;
 api.on('exit', (code) => {
   if (!stopping) {
     console.error(`beadroll: the API stopped (exit ${code})`);

@@ -8,4 +8,4 @@ bash docker-free-scripts/install.sh --browser
 export PORT="${TEST_PORT:-18080}" PGPORT="${TEST_PGPORT:-55433}" SMTP_PORT="${TEST_SMTP_PORT:-12525}" \
   S3_PORT="${TEST_S3_PORT:-14569}" DATA_DIR="${TEST_DATA_DIR:-.data-test}" PGDATABASE=beadroll_test
 source docker-free-scripts/env.sh
-exec node node_modules/tsx/dist/cli.mjs docker-free-scripts/test.ts "$@"
+exec node --import tsx docker-free-scripts/test.ts "$@"

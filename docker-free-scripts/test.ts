@@ -79,7 +79,13 @@ async function finish(): Promise<never> {
   console.log(`${passed} passed, ${failed} failed`);
   process.exit(lines.every((l) => l.ok) && lines.length > 0 ? 0 : 1);
 }
-process.on('SIGINT', () => void finish());
+let interrupted = false;
+process.on('SIGINT', () => {
+  if (interrupted) return; // npm forwards the terminal's Ctrl-C too
+  interrupted = true;
+  lines.push({ name: 'interrupted', ok: false, ms: 0 });
+  void finish();
+});
 
 // A fresh data folder each run: a new PostgreSQL cluster (about 1.5 s), an empty mail box and bucket.
 await run('bash', ['docker-free-scripts/pg.sh', 'stop'], { quiet: true });
