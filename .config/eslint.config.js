@@ -3,6 +3,7 @@ import js from '@eslint/js';
 import tseslint from 'typescript-eslint';
 import reactHooks from 'eslint-plugin-react-hooks';
 import globals from 'globals';
+import path from 'node:path';
 
 export default tseslint.config(
   { ignores: ['**/node_modules/**', '**/dist/**', '.data/**', '.data-*/**', '**/*.js', '**/*.cjs', '**/*.mjs'] },
@@ -10,7 +11,7 @@ export default tseslint.config(
   ...tseslint.configs.recommendedTypeChecked,
   {
     languageOptions: {
-      parserOptions: { projectService: true, tsconfigRootDir: import.meta.dirname },
+      parserOptions: { projectService: true, tsconfigRootDir: path.resolve(import.meta.dirname, '..') },
       globals: { ...globals.node },
     },
     rules: {
