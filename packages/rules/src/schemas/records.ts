@@ -2,7 +2,13 @@
 // with their examination, certified qualifications (WPQs), uploads and the public verify page.
 // The API parses request bodies with these; the web resolves its forms and parses responses with them.
 import { z } from 'zod';
-import { codeIdSchema, criteriaIdSchema, isoDateSchema, positiveLengthSchema, lengthSchema } from './common.js';
+import {
+  codeIdSchema,
+  criteriaIdSchema,
+  isoDateSchema,
+  positiveLengthSchema,
+  lengthSchema,
+} from './common.js';
 import { couponSchema, processes, transferModes, progressions } from './coupon.js';
 import { bendSpecimenKinds, discontinuityTypes } from './bend.js';
 import { weldingPositions } from '../ranges/positions.js';
@@ -28,24 +34,33 @@ export type Upload = z.infer<typeof uploadSchema>;
 
 export const procedureStatuses = ['active', 'superseded'] as const;
 
-export const procedureInput = z.object({
+// The fields of a WPS without defaults, so that a partial update leaves out what it does not name.
+const procedureFields = z.object({
   number: required(40),
   revision: required(12),
   code: codeIdSchema,
   processes: z.array(z.enum(processes)).min(1, 'Choose at least one process').max(4),
   /** Base metal P-Numbers (or ISO material groups) as written on the WPS, e.g. ['1'] or ['8', '1']. */
-  pNumbers: z.array(required(12)).max(6).default([]),
+  pNumbers: z.array(required(12)).max(6),
   fNumber: z.number().int().min(1).max(99).nullable().optional(),
-  positions: z.array(z.enum(weldingPositions)).max(4).default([]),
+  positions: z.array(z.enum(weldingPositions)).max(4),
   thicknessMin: positiveLengthSchema.nullable().optional(),
   thicknessMax: positiveLengthSchema.nullable().optional(),
-  status: z.enum(procedureStatuses).default('active'),
+  status: z.enum(procedureStatuses),
   documentUploadId: uuid.nullable().optional(),
-  notes: text(2000).optional().default(''),
+  notes: text(2000),
+});
+
+export const procedureInput = procedureFields.extend({
+  pNumbers: procedureFields.shape.pNumbers.default([]),
+  positions: procedureFields.shape.positions.default([]),
+  status: procedureFields.shape.status.default('active'),
+  notes: procedureFields.shape.notes.optional().default(''),
 });
 export type ProcedureInput = z.input<typeof procedureInput>;
 
-export const procedureUpdateInput = procedureInput.partial().extend({ version: z.number().int().min(1) });
+/** PATCH: only the fields named change (no defaults fill the others in); version is the one edited. */
+export const procedureUpdateInput = procedureFields.partial().extend({ version: z.number().int().min(1) });
 export type ProcedureUpdateInput = z.input<typeof procedureUpdateInput>;
 
 export const procedureSchema = z.object({
@@ -70,7 +85,10 @@ export type Procedure = z.infer<typeof procedureSchema>;
 export const procedureListQuery = z.object({
   code: codeIdSchema.optional(),
   process: z.enum(processes).optional(),
-  status: z.enum([...procedureStatuses, 'all']).optional().default('all'),
+  status: z
+    .enum([...procedureStatuses, 'all'])
+    .optional()
+    .default('all'),
   q: z.string().trim().max(60).optional(),
 });
 
@@ -117,7 +135,10 @@ export const couponRecordInput = z.object({
   testedOn: isoDateSchema,
   coupon: couponSchema,
   /** Pipe given by size: the form fills outsideDiameter and thickness from pipeDimensions. */
-  pipe: z.object({ nps: required(8), schedule: required(8) }).nullable().optional(),
+  pipe: z
+    .object({ nps: required(8), schedule: required(8) })
+    .nullable()
+    .optional(),
   pNumbers: z.array(required(12)).max(6).default([]),
   examiner: z.object({ name: required(120), certificateNumber: text(60).default('') }),
   labReportNumber: text(60).default(''),
@@ -128,6 +149,17 @@ export const couponRecordInput = z.object({
   notes: text(2000).default(''),
 });
 export type CouponRecordInput = z.input<typeof couponRecordInput>;
+
+/** PATCH /api/coupons/:id: the whole record again (the welder cannot change) and the version edited. */
+export const couponUpdateInput = couponRecordInput
+  .omit({ welderId: true })
+  .extend({ version: z.number().int().min(1) });
+export type CouponUpdateInput = z.input<typeof couponUpdateInput>;
+
+export const couponListQuery = z.object({
+  welderId: uuid.optional(),
+  result: z.enum(examinationResults).optional(),
+});
 
 export const couponReasonSchema = z.object({ clause: z.string(), message: z.string() });
 
@@ -182,6 +214,8 @@ export const certifyInput = z.object({
   certifiedOn: isoDateSchema,
   /** The coupon version the certifier looked at; a stale one gives 409. */
   version: z.number().int().min(1),
+  /** A qualification of the same welder, code and process that this one corrects (it leaves the current lists). */
+  supersedesId: uuid.optional(),
 });
 export type CertifyInput = z.infer<typeof certifyInput>;
 
@@ -192,6 +226,12 @@ export const revokeInput = z.object({
 export type RevokeInput = z.infer<typeof revokeInput>;
 
 export const qualificationStates = ['current', 'lapsing', 'lapsed', 'revoked'] as const;
+
+/** state absent: every qualification not superseded; 'superseded': only those; 'all': everything. */
+export const qualificationListQuery = z.object({
+  welderId: uuid.optional(),
+  state: z.enum([...qualificationStates, 'superseded', 'all']).optional(),
+});
 
 export const qualificationSchema = z.object({
   id: z.string(),
@@ -237,3 +277,7 @@ export const verifySchema = z.object({
   notice: z.string(),
 });
 export type VerifyView = z.infer<typeof verifySchema>;
+
+export const verifyTokenIssuedSchema = z.object({ url: z.string() });
+export const verifyTokenStatusSchema = z.object({ active: z.boolean(), issuedAt: z.string().nullable() });
+export type VerifyTokenStatus = z.infer<typeof verifyTokenStatusSchema>;

@@ -1,0 +1,232 @@
+// The server's verdict on a coupon, from the same rules package the form uses: the typed sizes are
+// read again, the coupon must be one the rules can give ranges for, the bend specimens are judged (or the
+// RT/UT result taken) and combined with the visual examination. Pure: no database, no clock.
+import {
+  RULES_VERSION,
+  RulesInputError,
+  evaluateBendTest,
+  formatLength,
+  parseLength,
+  pipeDimensions,
+  qualifiedRanges,
+  type Coupon,
+  type couponRecordInput,
+  type recordedDiscontinuitySchema,
+  type CriteriaId,
+} from '@beadroll/rules';
+import type { z } from 'zod';
+import { CODE_NAMES } from '../documents/document-format.js';
+import { AppError } from '../lib/errors.js';
+
+export type CouponFields = Omit<z.output<typeof couponRecordInput>, 'welderId'>;
+export type Result = 'accept' | 'reject' | 'replace-specimen';
+export type Reason = { clause: string; message: string };
+
+export type StoredSpecimen = {
+  label?: string;
+  kind: 'face' | 'root' | 'side';
+  discontinuities: z.output<typeof recordedDiscontinuitySchema>[];
+  photoUploadId: string | null;
+  result: Result;
+  reasons: Reason[];
+};
+
+export type StoredExamination =
+  | { method: 'bend'; criteria: CriteriaId; specimens: StoredSpecimen[] }
+  | {
+      method: 'radiography' | 'ultrasonic';
+      result: 'accept' | 'reject';
+      reportNumber: string;
+      reportUploadId: string | null;
+    };
+
+export type CouponEvaluation = {
+  coupon: Coupon;
+  examination: StoredExamination;
+  result: Result;
+  reasons: Reason[];
+  criteriaId: CriteriaId | null;
+  rulesVersion: string;
+};
+
+const prefixed = (prefix: string, fields: Record<string, string>): Record<string, string> =>
+  Object.fromEntries(Object.entries(fields).map(([k, v]) => [k ? `${prefix}.${k}` : prefix, v]));
+
+const SAME = 1e-9;
+
+/** Sizes typed on the form, read again; a size the client parsed differently is refused. */
+function checkSizes(input: CouponFields, fields: Record<string, string>): void {
+  if (input.examination.method !== 'bend') return;
+  input.examination.specimens.forEach((s, i) =>
+    s.discontinuities.forEach((d, j) => {
+      const at = `examination.specimens.${i}.discontinuities.${j}`;
+      let parsed;
+      try {
+        parsed = parseLength(d.sizeText);
+      } catch (err) {
+        if (!(err instanceof RangeError)) throw err;
+        fields[`${at}.sizeText`] =
+          err instanceof RulesInputError ? (Object.values(err.fields)[0] ?? err.message) : err.message;
+        return;
+      }
+      if (
+        parsed.unit !== d.size.unit ||
+        Math.abs(parsed.value - d.size.value) > SAME * Math.max(1, parsed.value)
+      )
+        fields[`${at}.size`] =
+          `"${d.sizeText}" reads as ${formatLength(parsed)}, not ${formatLength(d.size)}`;
+    }),
+  );
+}
+
+function withPipe(input: CouponFields, fields: Record<string, string>): Coupon {
+  const coupon = { ...input.coupon };
+  if (!input.pipe) return coupon;
+  if (coupon.form !== 'pipe') {
+    fields.pipe = 'A pipe size was given for a plate coupon';
+    return coupon;
+  }
+  try {
+    const d = pipeDimensions(input.pipe.nps, input.pipe.schedule);
+    coupon.outsideDiameter ??= d.outsideDiameter;
+  } catch (err) {
+    if (!(err instanceof RulesInputError)) throw err;
+    Object.assign(fields, prefixed('pipe', err.fields));
+  }
+  return coupon;
+}
+
+const visualReason = (code: Coupon['code']): Reason => ({
+  clause: `${CODE_NAMES[code]} visual examination`,
+  message: 'Visual examination rejected',
+});
+
+const RANK: Record<Result, number> = { accept: 0, 'replace-specimen': 1, reject: 2 };
+
+/** Evaluates a coupon as recorded; throws AppError 400 with the fields at fault. */
+export function evaluateCoupon(input: CouponFields): CouponEvaluation {
+  const fields: Record<string, string> = {};
+  const coupon = withPipe(input, fields);
+  checkSizes(input, fields);
+  if (Object.keys(fields).length > 0) throw AppError.validation(fields);
+
+  try {
+    qualifiedRanges(coupon);
+  } catch (err) {
+    if (err instanceof RulesInputError)
+      throw AppError.validation(prefixed('coupon', err.fields), err.message);
+    throw err;
+  }
+
+  let examination: StoredExamination;
+  let examResult: Result;
+  let reasons: Reason[] = [];
+  const ex = input.examination;
+  if (ex.method === 'bend') {
+    let evaluation;
+    try {
+      evaluation = evaluateBendTest({
+        criteria: ex.criteria,
+        wallThickness: coupon.thickness,
+        specimens: ex.specimens.map((s) => ({
+          ...(s.label ? { id: s.label } : {}),
+          kind: s.kind,
+          discontinuities: s.discontinuities.map((d) => ({
+            size: d.size,
+            location: d.location,
+            fusionRelated: d.fusionRelated,
+            ...(d.type ? { type: d.type } : {}),
+          })),
+        })),
+      });
+    } catch (err) {
+      if (err instanceof RulesInputError)
+        throw AppError.validation(prefixed('examination', err.fields), err.message);
+      throw err;
+    }
+    examResult = evaluation.result;
+    examination = {
+      method: 'bend',
+      criteria: ex.criteria,
+      specimens: ex.specimens.map((s, i) => {
+        const e = evaluation.specimens[i];
+        return {
+          ...(s.label ? { label: s.label } : {}),
+          kind: s.kind,
+          discontinuities: s.discontinuities,
+          photoUploadId: s.photoUploadId ?? null,
+          result: e?.result ?? 'accept',
+          reasons: e?.reasons ?? [],
+        };
+      }),
+    };
+    reasons = examination.specimens.flatMap((s) =>
+      s.reasons.map((r) => ({ clause: r.clause, message: s.label ? `${s.label}: ${r.message}` : r.message })),
+    );
+  } else {
+    examResult = ex.result;
+    examination = {
+      method: ex.method,
+      result: ex.result,
+      reportNumber: ex.reportNumber,
+      reportUploadId: ex.reportUploadId ?? null,
+    };
+    const words = ex.method === 'radiography' ? 'Radiographic' : 'Ultrasonic';
+    if (ex.result === 'reject')
+      reasons.push({
+        clause: `${CODE_NAMES[coupon.code]} ${words.toLowerCase()} examination`,
+        message: `${words} examination rejected${ex.reportNumber ? ` (report ${ex.reportNumber})` : ''}`,
+      });
+  }
+
+  let result = examResult;
+  if (input.visual === 'reject') {
+    result = 'reject';
+    reasons = [visualReason(coupon.code), ...reasons];
+  }
+  if (RANK[examResult] > RANK[result]) result = examResult;
+
+  if (input.claimedResult && input.claimedResult !== result) {
+    const first = reasons[0];
+    throw AppError.validation(
+      {
+        claimedResult: `The evaluation gives ${result}, not ${input.claimedResult}: ${
+          first ? `${first.message} (${first.clause})` : 'no discontinuity exceeds the criteria'
+        }`,
+      },
+      'The recorded verdict disagrees with the evaluation',
+    );
+  }
+
+  return {
+    coupon,
+    examination,
+    result,
+    reasons,
+    criteriaId: ex.method === 'bend' ? ex.criteria : null,
+    rulesVersion: RULES_VERSION,
+  };
+}
+
+/** The uploads a coupon refers to, each with the field that names it. */
+export function attachmentRefs(input: CouponFields): Array<{ field: string; id: string }> {
+  const ex = input.examination;
+  if (ex.method === 'bend')
+    return ex.specimens.flatMap((s, i) =>
+      s.photoUploadId ? [{ field: `examination.specimens.${i}.photoUploadId`, id: s.photoUploadId }] : [],
+    );
+  return ex.reportUploadId ? [{ field: 'examination.reportUploadId', id: ex.reportUploadId }] : [];
+}
+
+/** Why a WPS cannot back this coupon, or null when it can. */
+export function procedureProblem(
+  p: { number: string; revision: string; code: string; processes: string[]; status: string },
+  coupon: { code: Coupon['code']; process: string },
+): string | null {
+  const name = `WPS ${p.number} rev ${p.revision}`;
+  if (p.status !== 'active') return `${name} is superseded`;
+  if (p.code !== coupon.code)
+    return `${name} is for ${CODE_NAMES[p.code as Coupon['code']] ?? p.code}, not ${CODE_NAMES[coupon.code]}`;
+  if (!p.processes.includes(coupon.process)) return `${name} does not cover ${coupon.process}`;
+  return null;
+}

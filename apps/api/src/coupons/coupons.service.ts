@@ -1,0 +1,203 @@
+// Coupons: recording a welder's qualification test, its examination and the server's verdict; editing it
+// until it is certified. One transaction per write, with its audit event.
+import type { EntityManager } from 'typeorm';
+import type { z } from 'zod';
+import {
+  couponRecordSchema,
+  type CouponRecord,
+  type couponListQuery,
+  type couponRecordInput,
+  type couponUpdateInput,
+  type Upload,
+} from '@beadroll/rules';
+import type { AppDeps } from '../lib/context.js';
+import { AppError } from '../lib/errors.js';
+import { isUuid, type Actor } from '../lib/scope.js';
+import { diff, recordAudit } from '../lib/audit.js';
+import { isoDay } from '../lib/dates.js';
+import { companyShops } from '../shops/shops.service.js';
+import { checkAttachments, uploadsById } from '../uploads/uploads.service.js';
+import { procedureForCoupon } from '../procedures/procedures.repository.js';
+import { attachmentRefs, evaluateCoupon, procedureProblem, type CouponFields } from './coupon-evaluation.js';
+import { refreshContinuityStates } from '../continuity/continuity-state.repository.js';
+import * as repo from './coupons.repository.js';
+
+type CreateInput = z.output<typeof couponRecordInput>;
+type UpdateInput = z.output<typeof couponUpdateInput>;
+type ListQuery = z.output<typeof couponListQuery>;
+
+const STALE =
+  'Someone else changed this coupon since you opened it; reload to see their change and try again';
+export const CERTIFIED_LOCKED = 'Certified coupons cannot be edited; record a new coupon';
+
+function uploadIdsOf(rows: repo.CouponRaw[]): string[] {
+  return rows.flatMap((r) =>
+    r.examination.method === 'bend'
+      ? r.examination.specimens.flatMap((s) => (s.photoUploadId ? [s.photoUploadId] : []))
+      : r.examination.reportUploadId
+        ? [r.examination.reportUploadId]
+        : [],
+  );
+}
+
+function toRecord(r: repo.CouponRaw, uploads: Map<string, Upload>): CouponRecord {
+  const ex = r.examination;
+  const examination: CouponRecord['examination'] =
+    ex.method === 'bend'
+      ? {
+          method: 'bend',
+          criteria: ex.criteria,
+          specimens: ex.specimens.map((s) => ({
+            ...s,
+            photo: (s.photoUploadId && uploads.get(s.photoUploadId)) || null,
+          })),
+        }
+      : {
+          method: ex.method,
+          result: ex.result,
+          reportNumber: ex.reportNumber,
+          report: (ex.reportUploadId && uploads.get(ex.reportUploadId)) || null,
+        };
+  return couponRecordSchema.parse({ ...r, examination, createdAt: r.createdAt.toISOString() });
+}
+
+async function toRecords(db: EntityManager, actor: Actor, rows: repo.CouponRaw[]): Promise<CouponRecord[]> {
+  const uploads = await uploadsById(db, actor.organizationId, uploadIdsOf(rows));
+  return rows.map((r) => toRecord(r, uploads));
+}
+
+export async function listCoupons(deps: AppDeps, actor: Actor, q: ListQuery) {
+  const db = deps.dataSource.manager;
+  return { items: await toRecords(db, actor, await repo.listCoupons(db, actor, q)) };
+}
+
+export async function getCoupon(
+  deps: AppDeps,
+  actor: Actor,
+  id: string,
+  db: EntityManager = deps.dataSource.manager,
+): Promise<CouponRecord> {
+  const row = isUuid(id) ? await repo.findCoupon(db, actor, id) : null;
+  if (!row) throw AppError.notFound('coupon');
+  const [record] = await toRecords(db, actor, [row]);
+  return record!;
+}
+
+/** Every check against the company's records, then the evaluation: the row to write. */
+async function prepare(
+  deps: AppDeps,
+  db: EntityManager,
+  actor: Actor,
+  input: CouponFields,
+): Promise<{ write: repo.CouponWrite; uploadIds: string[] }> {
+  const fields: Record<string, string> = {};
+  const [shop] = await companyShops(db, actor, [input.shopId]);
+  if (!shop) fields.shopId = 'Choose a shop of your company';
+  const procedure = await procedureForCoupon(db, actor.organizationId, input.procedureId);
+  const problem = procedure
+    ? procedureProblem(procedure, input.coupon)
+    : 'Choose a WPS from your company’s register';
+  if (problem) fields.procedureId = problem;
+  if (input.testedOn > isoDay(deps.clock.now())) fields.testedOn = 'The test date cannot be in the future';
+  if (Object.keys(fields).length > 0) throw AppError.validation(fields);
+
+  const evaluation = evaluateCoupon(input);
+  const refs = attachmentRefs(input);
+  await checkAttachments(db, actor, refs);
+  return {
+    write: {
+      shopId: input.shopId,
+      procedureId: input.procedureId,
+      testedOn: input.testedOn,
+      code: evaluation.coupon.code,
+      process: evaluation.coupon.process,
+      coupon: evaluation.coupon,
+      pipe: input.pipe ?? null,
+      pNumbers: input.pNumbers,
+      examiner: input.examiner,
+      labReportNumber: input.labReportNumber,
+      visual: input.visual,
+      examination: evaluation.examination,
+      result: evaluation.result,
+      reasons: evaluation.reasons,
+      criteriaId: evaluation.criteriaId,
+      rulesVersion: evaluation.rulesVersion,
+      notes: input.notes,
+    },
+    uploadIds: refs.map((r) => r.id),
+  };
+}
+
+/** The audit snapshot of a coupon: the same JSON shape the database hands back. */
+const snapshot = (w: repo.CouponWrite): Record<string, unknown> =>
+  JSON.parse(JSON.stringify(w)) as Record<string, unknown>;
+
+export async function createCoupon(deps: AppDeps, actor: Actor, input: CreateInput): Promise<CouponRecord> {
+  const id = await deps.dataSource.transaction(async (db) => {
+    const { welderId, ...fields } = input;
+    if (!(await repo.welderOfOrganization(db, actor.organizationId, welderId)))
+      throw AppError.validation({ welderId: 'Choose a welder of your company' });
+    const { write, uploadIds } = await prepare(deps, db, actor, fields);
+    const now = deps.clock.now();
+    const couponId = await repo.insertCoupon(db, {
+      ...write,
+      organizationId: actor.organizationId,
+      welderId,
+      recordedBy: actor.id,
+      at: now,
+    });
+    await repo.replaceCouponUploads(db, couponId, uploadIds);
+    // A passing coupon is continuity evidence for its process on its date (every code the welder holds).
+    await refreshContinuityStates(db, welderId, write.process);
+    await recordAudit(db, actor, now, {
+      action: 'coupon.created',
+      entityType: 'coupon',
+      entityId: couponId,
+      before: null,
+      after: { welderId, ...snapshot(write) },
+    });
+    return couponId;
+  });
+  return getCoupon(deps, actor, id);
+}
+
+export async function updateCoupon(
+  deps: AppDeps,
+  actor: Actor,
+  id: string,
+  input: UpdateInput,
+): Promise<CouponRecord> {
+  if (!isUuid(id)) throw AppError.notFound('coupon');
+  await deps.dataSource.transaction(async (db) => {
+    const current = await repo.lockCoupon(db, actor.organizationId, id);
+    if (!current) throw AppError.notFound('coupon');
+    if (current.qualificationId) throw AppError.conflict(CERTIFIED_LOCKED);
+    if (current.version !== input.version) throw AppError.conflict(STALE);
+    const { version: _v, ...fields } = input;
+    const { write, uploadIds } = await prepare(deps, db, actor, fields);
+    const changes = diff(current.snapshot, snapshot(write));
+    if (changes.changed.length === 0) return;
+    const now = deps.clock.now();
+    if (!(await repo.updateCoupon(db, id, current.version, write, now))) throw AppError.conflict(STALE);
+    await repo.replaceCouponUploads(db, id, uploadIds);
+    await refreshContinuityStates(db, current.welderId, write.process);
+    if (current.process !== write.process) await refreshContinuityStates(db, current.welderId, current.process);
+    await recordAudit(db, actor, now, {
+      action: 'coupon.updated',
+      entityType: 'coupon',
+      entityId: id,
+      before: changes.before,
+      after: changes.after,
+    });
+  });
+  return getCoupon(deps, actor, id);
+}
+
+/** For certification (qualifications feature): the coupon locked in the caller's transaction. */
+export async function lockCouponForCertification(db: EntityManager, actor: Actor, id: string) {
+  const coupon = isUuid(id) ? await repo.lockCoupon(db, actor.organizationId, id) : null;
+  if (!coupon) throw AppError.notFound('coupon');
+  return coupon;
+}
+
+export { passingTestDatesSql } from './coupons.repository.js';

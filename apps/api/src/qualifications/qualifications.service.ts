@@ -1,0 +1,374 @@
+// Certified qualifications (WPQs): certifying a passing coupon with the ranges it qualifies, revoking,
+// superseding, their continuity status, and the WPQ record and wallet card PDFs.
+import type { EntityManager } from 'typeorm';
+import type { z } from 'zod';
+import {
+  daysBetween,
+  qualifiedRanges,
+  RULES_VERSION,
+  type CertifyInput,
+  type Coupon,
+  type CouponRecord,
+  type Qualification,
+  type qualificationListQuery,
+  type QualifiedRanges,
+  type RevokeInput,
+} from '@beadroll/rules';
+import type { AppDeps } from '../lib/context.js';
+import { AppError } from '../lib/errors.js';
+import { isUuid, type Actor } from '../lib/scope.js';
+import { recordAudit } from '../lib/audit.js';
+import { isoDay } from '../lib/dates.js';
+import { isUniqueViolation } from '../lib/db-errors.js';
+import { getCoupon, lockCouponForCertification } from '../coupons/coupons.service.js';
+import { ensureVerifyUrl } from '../verify/verify-tokens.service.js';
+import { renderWpqPdf } from '../documents/wpq-pdf.js';
+import { renderWalletCardPdf } from '../documents/wallet-card-pdf.js';
+import { formatDiameterRange, formatThicknessRange } from '../documents/document-format.js';
+import type {
+  BendSpecimenData,
+  WalletCardQualification,
+  WpqDocumentData,
+} from '../documents/document-data.js';
+import { refreshContinuityState } from '../continuity/continuity-state.repository.js';
+import * as repo from './qualifications.repository.js';
+
+type ListQuery = z.output<typeof qualificationListQuery>;
+type Status = Qualification['status'];
+
+const STALE_COUPON =
+  'Someone changed this coupon since you opened it; reload it and check the result before certifying';
+
+/**
+ * The continuity status of a qualification as of a day. The one place it is decided, from the pair's
+ * maintained state (continuity_states, refreshed in every transaction that can move it): revoked from
+ * revokedOn (from memory: QW-322.1(b)); else lapsed when lapsesOn <= asOf; lapsing within the company's
+ * largest lead time; else current — the same decision as the rules package's continuityStatus.
+ */
+export function qualificationStatus(
+  q: Pick<repo.QualificationRaw, 'qualifiedOn' | 'revokedOn' | 'stateLapsesOn' | 'stateLastEvidence' | 'warnDays'>,
+  asOf: string,
+): Status {
+  // No state row only if the refresh never ran for this pair: lapsed at the test date, the safe answer.
+  const pairLapsesOn = q.stateLapsesOn ?? q.qualifiedOn;
+  const lapsesOn = q.revokedOn && q.revokedOn < pairLapsesOn ? q.revokedOn : pairLapsesOn;
+  const daysLeft = daysBetween(asOf, lapsesOn);
+  const state: Status['state'] =
+    q.revokedOn && q.revokedOn <= asOf
+      ? 'revoked'
+      : daysLeft <= 0
+        ? 'lapsed'
+        : daysLeft <= Number(q.warnDays)
+          ? 'lapsing'
+          : 'current';
+  return { state, lapsesOn, daysLeft, lastEvidence: q.stateLastEvidence ?? q.qualifiedOn };
+}
+
+function toQualification(r: repo.QualificationRaw, asOf: string): Qualification {
+  return {
+    id: r.id,
+    welder: r.welder,
+    couponId: r.couponId,
+    code: r.code as Qualification['code'],
+    process: r.process as Qualification['process'],
+    transferMode: r.transferMode as Qualification['transferMode'],
+    progression: r.progression as Qualification['progression'],
+    ranges: r.ranges,
+    certifiedOn: r.certifiedOn,
+    certifiedBy: r.certifiedBy,
+    rulesVersion: r.rulesVersion,
+    status: qualificationStatus(r, asOf),
+    revokedOn: r.revokedOn,
+    revokedReason: r.revokedReason,
+    supersededById: r.supersededById,
+    version: r.version,
+  };
+}
+
+const today = (deps: AppDeps) => isoDay(deps.clock.now());
+
+export async function listQualifications(deps: AppDeps, actor: Actor, q: ListQuery) {
+  const superseded = q.state === 'all' ? undefined : q.state === 'superseded';
+  const rows = await repo.listQualifications(deps.dataSource.manager, actor, {
+    ...(q.welderId ? { welderId: q.welderId } : {}),
+    ...(superseded === undefined ? {} : { superseded }),
+  });
+  const asOf = today(deps);
+  const items = rows.map((r) => toQualification(r, asOf));
+  const state = q.state;
+  const byState = state && state !== 'all' && state !== 'superseded';
+  return { items: byState ? items.filter((i) => i.status.state === state) : items };
+}
+
+async function findRaw(deps: AppDeps, actor: Actor, id: string, db: EntityManager = deps.dataSource.manager) {
+  const row = isUuid(id) ? await repo.findQualification(db, actor, id) : null;
+  if (!row) throw AppError.notFound('qualification');
+  return row;
+}
+
+export async function getQualification(deps: AppDeps, actor: Actor, id: string): Promise<Qualification> {
+  return toQualification(await findRaw(deps, actor, id), today(deps));
+}
+
+export async function certifyCoupon(
+  deps: AppDeps,
+  actor: Actor,
+  couponId: string,
+  input: CertifyInput,
+): Promise<Qualification> {
+  const id = await deps.dataSource
+    .transaction(async (db) => {
+      const coupon = await lockCouponForCertification(db, actor, couponId);
+      if (coupon.qualificationId) throw AppError.conflict('This coupon is already certified');
+      if (coupon.version !== input.version) throw AppError.conflict(STALE_COUPON);
+      if (coupon.result !== 'accept') throw AppError.conflict('Only a passing coupon can be certified');
+      const now = deps.clock.now();
+      if (input.certifiedOn < coupon.testedOn)
+        throw AppError.validation({
+          certifiedOn: `Certification cannot be before the test (${coupon.testedOn})`,
+        });
+      if (input.certifiedOn > isoDay(now))
+        throw AppError.validation({ certifiedOn: 'The certification date cannot be in the future' });
+
+      let supersedes: Awaited<ReturnType<typeof repo.lockQualification>> = null;
+      if (input.supersedesId) {
+        supersedes = await repo.lockQualification(db, actor.organizationId, input.supersedesId);
+        const problem = !supersedes
+          ? 'No such qualification'
+          : supersedes.welderId !== coupon.welderId ||
+              supersedes.code !== coupon.code ||
+              supersedes.process !== coupon.process
+            ? 'Only a qualification of the same welder, code and process can be superseded'
+            : supersedes.supersededById
+              ? 'That qualification is already superseded'
+              : null;
+        if (problem) throw AppError.validation({ supersedesId: problem });
+      }
+
+      const c = coupon.coupon as Coupon;
+      const ranges: QualifiedRanges = qualifiedRanges(c);
+      const certifiedByName = await repo.userName(db, actor.id);
+      const qualificationId = await repo.insertQualification(db, {
+        organizationId: actor.organizationId,
+        welderId: coupon.welderId,
+        couponId: coupon.id,
+        code: coupon.code,
+        process: coupon.process,
+        transferMode: c.transferMode ?? null,
+        progression: c.progression ?? null,
+        ranges,
+        certifiedOn: input.certifiedOn,
+        certifiedBy: actor.id,
+        certifiedByName,
+        rulesVersion: RULES_VERSION,
+        supersedesId: supersedes?.id ?? null,
+        at: now,
+      });
+      await recordAudit(db, actor, now, {
+        action: 'qualification.certified',
+        entityType: 'qualification',
+        entityId: qualificationId,
+        before: null,
+        after: {
+          couponId: coupon.id,
+          welderId: coupon.welderId,
+          code: coupon.code,
+          process: coupon.process,
+          certifiedOn: input.certifiedOn,
+          certifiedBy: certifiedByName,
+          rulesVersion: RULES_VERSION,
+          ranges,
+          supersedesId: supersedes?.id ?? null,
+        },
+      });
+      await refreshContinuityState(db, coupon.welderId, coupon.process, coupon.code);
+      if (supersedes) {
+        await repo.markSuperseded(db, supersedes.id, qualificationId, now);
+        await recordAudit(db, actor, now, {
+          action: 'qualification.superseded',
+          entityType: 'qualification',
+          entityId: supersedes.id,
+          before: { supersededById: null },
+          after: { supersededById: qualificationId },
+        });
+      }
+      return qualificationId;
+    })
+    .catch((err: unknown) => {
+      // Two certifications of one coupon at the same moment: the unique index decides.
+      if (isUniqueViolation(err, 'qualifications_coupon_key'))
+        throw AppError.conflict('This coupon is already certified');
+      throw err;
+    });
+  return getQualification(deps, actor, id);
+}
+
+export async function revokeQualification(
+  deps: AppDeps,
+  actor: Actor,
+  id: string,
+  input: RevokeInput,
+): Promise<Qualification> {
+  if (!isUuid(id)) throw AppError.notFound('qualification');
+  await deps.dataSource.transaction(async (db) => {
+    const q = await repo.lockQualification(db, actor.organizationId, id);
+    if (!q) throw AppError.notFound('qualification');
+    if (q.revokedOn) throw AppError.conflict(`This qualification was already revoked on ${q.revokedOn}`);
+    if (input.revokedOn < q.certifiedOn)
+      throw AppError.validation({
+        revokedOn: `A qualification cannot be revoked before it was certified (${q.certifiedOn})`,
+      });
+    const now = deps.clock.now();
+    await repo.markRevoked(db, id, {
+      revokedOn: input.revokedOn,
+      reason: input.reason,
+      by: actor.id,
+      at: now,
+    });
+    await refreshContinuityState(db, q.welderId, q.process, q.code);
+    await recordAudit(db, actor, now, {
+      action: 'qualification.revoked',
+      entityType: 'qualification',
+      entityId: id,
+      before: { revokedOn: null, revokedReason: null },
+      after: { revokedOn: input.revokedOn, revokedReason: input.reason },
+    });
+  });
+  return getQualification(deps, actor, id);
+}
+
+// ---- documents ----------------------------------------------------------------------------------------
+
+function examinationData(c: CouponRecord): WpqDocumentData['examination'] {
+  const ex = c.examination;
+  const test: WpqDocumentData['examination']['test'] =
+    ex.method === 'bend'
+      ? {
+          method: 'bend',
+          criteria: ex.criteria,
+          result: ex.specimens.reduce<BendSpecimenData['result']>(
+            (worst, s) =>
+              s.result === 'reject' || worst === 'reject'
+                ? 'reject'
+                : s.result === 'replace-specimen'
+                  ? 'replace-specimen'
+                  : worst,
+            'accept',
+          ),
+          specimens: ex.specimens.map((s) => ({
+            ...(s.label ? { label: s.label } : {}),
+            kind: s.kind,
+            result: s.result,
+            discontinuities: s.discontinuities.map((d) => ({
+              sizeText: d.sizeText,
+              location: d.location,
+              ...(d.type ? { type: d.type } : {}),
+              fusionRelated: d.fusionRelated,
+            })),
+            reasons: s.reasons,
+          })),
+        }
+      : { method: ex.method, result: ex.result, reportNumber: ex.reportNumber };
+  return { visual: { result: c.visual }, test };
+}
+
+export async function wpqPdf(
+  deps: AppDeps,
+  actor: Actor,
+  id: string,
+): Promise<{ pdf: Buffer; fileName: string }> {
+  const q = await findRaw(deps, actor, id);
+  const coupon = await getCoupon(deps, actor, q.couponId);
+  const asOf = today(deps);
+  const status = qualificationStatus(q, asOf);
+  const company = await repo.organizationName(deps.dataSource.manager, actor.organizationId);
+  const verifyUrl = await ensureVerifyUrl(deps, actor, q.welder.id);
+  const c = coupon.coupon;
+  const data: WpqDocumentData = {
+    company: { name: company },
+    welder: { name: q.welder.name, stamp: q.welder.stamp },
+    qualification: {
+      id: q.id,
+      code: q.code as Coupon['code'],
+      process: q.process as Coupon['process'],
+      ...(c.transferMode ? { transferMode: c.transferMode } : {}),
+      wps: { number: coupon.procedure.number, revision: coupon.procedure.revision },
+      certifiedOn: q.certifiedOn,
+      certifiedBy: { name: q.certifiedBy.name, title: 'QA Manager' },
+    },
+    coupon: {
+      testedOn: coupon.testedOn,
+      shopName: coupon.shop.name,
+      form: c.form,
+      ...(coupon.pipe ? { nps: coupon.pipe.nps, schedule: coupon.pipe.schedule } : {}),
+      ...(c.outsideDiameter ? { outsideDiameter: c.outsideDiameter } : {}),
+      thickness: c.thickness,
+      weld: c.weld,
+      position: c.position,
+      ...(c.depositedThickness ? { depositedThickness: c.depositedThickness } : {}),
+      ...(c.layers ? { layers: c.layers } : {}),
+      backing: c.backing,
+      ...(c.fNumber ? { fNumber: c.fNumber } : {}),
+      pNumbers: coupon.pNumbers,
+      ...(c.progression ? { progression: c.progression } : {}),
+      examiner: coupon.examiner,
+      labReportNumber: coupon.labReportNumber,
+    },
+    examination: examinationData(coupon),
+    ranges: q.ranges as unknown as QualifiedRanges,
+    rulesVersion: q.rulesVersion,
+    status: { state: status.state, lapsesOn: status.lapsesOn, asOf },
+    verifyUrl,
+  };
+  return {
+    pdf: await renderWpqPdf(data),
+    fileName: `WPQ ${q.welder.stamp} ${q.code} ${q.process} ${q.certifiedOn}.pdf`,
+  };
+}
+
+/** Positions, thickness and diameter in one line, as the verify page and lists show them. */
+export function rangeSummary(ranges: Record<string, unknown>): string {
+  const r = ranges as unknown as QualifiedRanges;
+  const pos = (p: string[]) => (p.length ? p.join(', ') : 'none');
+  return `Groove ${pos(r.positions.groove)}; fillet ${pos(r.positions.fillet)} · ${formatThicknessRange(r)} · ${formatDiameterRange(r)}`;
+}
+
+/** The welder's qualifications that belong on a card or a verify page: not superseded, with today's status. */
+export async function welderQualificationsToday(deps: AppDeps, actor: Actor, welderId: string) {
+  const rows = await repo.listQualifications(deps.dataSource.manager, actor, { welderId, superseded: false });
+  const asOf = today(deps);
+  return rows.map((r) => ({ row: r, status: qualificationStatus(r, asOf) }));
+}
+
+export async function walletCardPdf(
+  deps: AppDeps,
+  actor: Actor,
+  welder: { id: string; name: string; stamp: string; homeShop: string },
+): Promise<{ pdf: Buffer; fileName: string }> {
+  const list = await welderQualificationsToday(deps, actor, welder.id);
+  const company = await repo.organizationName(deps.dataSource.manager, actor.organizationId);
+  const verifyUrl = await ensureVerifyUrl(deps, actor, welder.id);
+  const qualifications: WalletCardQualification[] = list
+    .filter((q) => q.status.state === 'current' || q.status.state === 'lapsing')
+    .map(({ row, status }) => {
+      const r = row.ranges as unknown as QualifiedRanges;
+      return {
+        code: row.code as Coupon['code'],
+        process: row.process as Coupon['process'],
+        positions: r.positions,
+        thickness: formatThicknessRange(r),
+        diameter: formatDiameterRange(r),
+        fNumbers: r.fNumbers,
+        lapsesOn: status.lapsesOn,
+        state: status.state,
+      };
+    });
+  const pdf = await renderWalletCardPdf({
+    company: { name: company },
+    welder: { name: welder.name, stamp: welder.stamp, homeShop: welder.homeShop },
+    issuedOn: today(deps),
+    verifyUrl,
+    qualifications,
+  });
+  return { pdf, fileName: `Card ${welder.stamp}.pdf` };
+}

@@ -1,0 +1,154 @@
+// Verify tokens: 32 random bytes (base64url) per welder, the one that a card's QR code carries. The
+// database keeps a SHA-256 hash for the lookup and an AES-256-GCM sealed copy (key derived from the
+// server secret) so a reprinted card keeps the same link. Issuing a new one ends the old one.
+import { createCipheriv, createDecipheriv, createHash, hkdfSync, randomBytes } from 'node:crypto';
+import type { EntityManager } from 'typeorm';
+import type { AppDeps } from '../lib/context.js';
+import { AppError } from '../lib/errors.js';
+import { isUuid, type Actor } from '../lib/scope.js';
+import { recordAudit } from '../lib/audit.js';
+import { VerifyTokenEntity } from './verify-token.entity.js';
+
+export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
+
+const keyCache = new Map<string, Buffer>();
+function sealingKey(secret: string): Buffer {
+  let key = keyCache.get(secret);
+  if (!key) {
+    key = Buffer.from(hkdfSync('sha256', secret, 'beadroll', 'verify-token-seal', 32));
+    keyCache.set(secret, key);
+  }
+  return key;
+}
+
+export function sealToken(secret: string, token: string): string {
+  const iv = randomBytes(12);
+  const cipher = createCipheriv('aes-256-gcm', sealingKey(secret), iv);
+  const body = Buffer.concat([cipher.update(token, 'utf8'), cipher.final()]);
+  return Buffer.concat([iv, cipher.getAuthTag(), body]).toString('base64url');
+}
+
+export function unsealToken(secret: string, sealed: string): string {
+  const raw = Buffer.from(sealed, 'base64url');
+  const decipher = createDecipheriv('aes-256-gcm', sealingKey(secret), raw.subarray(0, 12));
+  decipher.setAuthTag(raw.subarray(12, 28));
+  return Buffer.concat([decipher.update(raw.subarray(28)), decipher.final()]).toString('utf8');
+}
+
+export const verifyUrl = (appUrl: string, token: string) => `${appUrl}/verify/${token}`;
+
+async function welderInCompany(db: EntityManager, actor: Actor, welderId: string): Promise<void> {
+  const rows: unknown[] = isUuid(welderId)
+    ? await db.query(`SELECT 1 FROM welders WHERE organization_id = $1 AND id = $2`, [
+        actor.organizationId,
+        welderId,
+      ])
+    : [];
+  if (rows.length === 0) throw AppError.notFound('welder');
+}
+
+async function activeToken(db: EntityManager, welderId: string, lock = false) {
+  const rows: { id: string; tokenSealed: string; issuedAt: Date }[] = await db.query(
+    `SELECT id, token_sealed AS "tokenSealed", issued_at AS "issuedAt" FROM verify_tokens
+      WHERE welder_id = $1 AND revoked_at IS NULL${lock ? ' FOR UPDATE' : ''}`,
+    [welderId],
+  );
+  return rows[0] ?? null;
+}
+
+async function issueIn(deps: AppDeps, db: EntityManager, actor: Actor, welderId: string): Promise<string> {
+  const now = deps.clock.now();
+  const previous = await activeToken(db, welderId, true);
+  if (previous) await db.query(`UPDATE verify_tokens SET revoked_at = $2 WHERE id = $1`, [previous.id, now]);
+  const token = randomBytes(32).toString('base64url');
+  await db.insert(VerifyTokenEntity, {
+    organizationId: actor.organizationId,
+    welderId,
+    tokenHash: hashToken(token),
+    tokenSealed: sealToken(deps.config.jwtSecret, token),
+    issuedAt: now,
+    issuedBy: actor.id,
+    revokedAt: null,
+  });
+  await recordAudit(db, actor, now, {
+    action: previous ? 'verify-token.reissued' : 'verify-token.issued',
+    entityType: 'verify-token',
+    entityId: welderId,
+    before: previous ? { active: true, issuedAt: previous.issuedAt.toISOString() } : { active: false },
+    after: { active: true, issuedAt: now.toISOString() },
+  });
+  return verifyUrl(deps.config.appUrl, token);
+}
+
+/** POST /api/welders/:id/verify-token: a new token; the old link stops working. */
+export async function issueVerifyToken(
+  deps: AppDeps,
+  actor: Actor,
+  welderId: string,
+): Promise<{ url: string }> {
+  return deps.dataSource.transaction(async (db) => {
+    await welderInCompany(db, actor, welderId);
+    await db.query(`SELECT id FROM welders WHERE id = $1 FOR UPDATE`, [welderId]);
+    return { url: await issueIn(deps, db, actor, welderId) };
+  });
+}
+
+/**
+ * The welder's verify URL, issuing a token if there is none yet (a printed card always links somewhere
+ * that works). The caller has already checked that the actor may see the welder.
+ */
+export async function ensureVerifyUrl(deps: AppDeps, actor: Actor, welderId: string): Promise<string> {
+  const existing = await activeToken(deps.dataSource.manager, welderId);
+  if (existing)
+    return verifyUrl(deps.config.appUrl, unsealToken(deps.config.jwtSecret, existing.tokenSealed));
+  return deps.dataSource.transaction(async (db) => {
+    // Two downloads at once: the welder row lock makes the second one find the first one's token.
+    await db.query(`SELECT id FROM welders WHERE id = $1 FOR UPDATE`, [welderId]);
+    const again = await activeToken(db, welderId);
+    if (again) return verifyUrl(deps.config.appUrl, unsealToken(deps.config.jwtSecret, again.tokenSealed));
+    return issueIn(deps, db, actor, welderId);
+  });
+}
+
+/** DELETE /api/welders/:id/verify-token: the card's link stops working. */
+export async function revokeVerifyToken(deps: AppDeps, actor: Actor, welderId: string): Promise<void> {
+  await deps.dataSource.transaction(async (db) => {
+    await welderInCompany(db, actor, welderId);
+    const current = await activeToken(db, welderId, true);
+    if (!current) return;
+    const now = deps.clock.now();
+    await db.query(`UPDATE verify_tokens SET revoked_at = $2 WHERE id = $1`, [current.id, now]);
+    await recordAudit(db, actor, now, {
+      action: 'verify-token.revoked',
+      entityType: 'verify-token',
+      entityId: welderId,
+      before: { active: true, issuedAt: current.issuedAt.toISOString() },
+      after: { active: false },
+    });
+  });
+}
+
+export async function verifyTokenStatus(
+  deps: AppDeps,
+  actor: Actor,
+  welderId: string,
+): Promise<{ active: boolean; issuedAt: string | null }> {
+  const db = deps.dataSource.manager;
+  await welderInCompany(db, actor, welderId);
+  const current = await activeToken(db, welderId);
+  return { active: current !== null, issuedAt: current ? current.issuedAt.toISOString() : null };
+}
+
+/** The welder and company a live token names, or null. */
+export async function resolveVerifyToken(
+  db: EntityManager,
+  token: string,
+): Promise<{ welderId: string; organizationId: string } | null> {
+  if (!/^[A-Za-z0-9_-]{43}$/.test(token)) return null;
+  const rows: { welderId: string; organizationId: string }[] = await db.query(
+    `SELECT welder_id AS "welderId", organization_id AS "organizationId" FROM verify_tokens
+      WHERE token_hash = $1 AND revoked_at IS NULL`,
+    [hashToken(token)],
+  );
+  return rows[0] ?? null;
+}

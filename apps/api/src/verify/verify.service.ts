@@ -1,0 +1,43 @@
+// The public verify page behind a card's QR code: only the welder's name and stamp, the company, and each
+// qualification's state today with a one-line range summary. No photo, no e-mail, no ids.
+import type { VerifyView } from '@beadroll/rules';
+import type { AppDeps } from '../lib/context.js';
+import { AppError } from '../lib/errors.js';
+import { isoDay } from '../lib/dates.js';
+import { rangeSummary, welderQualificationsToday } from '../qualifications/qualifications.service.js';
+import { resolveVerifyToken } from './verify-tokens.service.js';
+
+export const verifyNotice = (company: string) =>
+  `This page shows what ${company} has on record today. The code edition in force, ${company}'s quality manual and the responsible inspector govern; ask them before relying on it for a particular joint.`;
+
+export async function verifyView(deps: AppDeps, token: string): Promise<VerifyView> {
+  const db = deps.dataSource.manager;
+  const found = await resolveVerifyToken(db, token);
+  if (!found) throw new AppError('not_found', 'This card is no longer valid');
+  const rows: { name: string; stamp: string; company: string }[] = await db.query(
+    `SELECT w.name, w.stamp, o.name AS company FROM welders w JOIN organizations o ON o.id = w.organization_id
+      WHERE w.id = $1`,
+    [found.welderId],
+  );
+  const welder = rows[0];
+  if (!welder) throw new AppError('not_found', 'This card is no longer valid');
+  // Read as the company would: the token stands in for a signed-in reader of this one welder.
+  const list = await welderQualificationsToday(
+    deps,
+    { id: '', organizationId: found.organizationId, role: 'qa_manager', welderId: null, shopIds: [] },
+    found.welderId,
+  );
+  return {
+    welder: { name: welder.name, stamp: welder.stamp },
+    company: welder.company,
+    asOf: isoDay(deps.clock.now()),
+    qualifications: list.map(({ row, status }) => ({
+      code: row.code as VerifyView['qualifications'][number]['code'],
+      process: row.process as VerifyView['qualifications'][number]['process'],
+      state: status.state,
+      lapsesOn: status.lapsesOn,
+      summary: rangeSummary(row.ranges),
+    })),
+    notice: verifyNotice(welder.company),
+  };
+}
