@@ -17,6 +17,15 @@ import { peopleRouter } from './people/people.router.js';
 import { weldersRouter } from './welders/welders.router.js';
 import { auditRouter } from './audit/audit.router.js';
 import { devMailRouter } from './dev-mail/dev-mail.router.js';
+import { uploadsRouter } from './uploads/uploads.router.js';
+import { proceduresRouter } from './procedures/procedures.router.js';
+import { couponsRouter } from './coupons/coupons.router.js';
+import { qualificationsRouter, welderCardRouter } from './qualifications/qualifications.router.js';
+import { verifyRouter, verifyTokenRouter } from './verify/verify.router.js';
+import { continuityRouter, welderTimelineRouter } from './continuity/continuity.router.js';
+import { settingsRouter } from './settings/settings.router.js';
+import { lapseWatchRouter } from './lapse-watch/lapse-watch.router.js';
+import { overviewRouter } from './overview/overview.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -75,8 +84,20 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use(authRouter(deps, auth.requireAuth));
   api.use('/shops', shopsRouter(deps, auth.requireAuth));
   api.use('/people', peopleRouter(deps, auth.requireAuth));
+  api.use('/welders', welderCardRouter(deps, auth.requireAuth));
+  api.use('/welders', verifyTokenRouter(deps, auth.requireAuth));
+  api.use('/welders', welderTimelineRouter(deps, auth.requireAuth));
   api.use('/welders', weldersRouter(deps, auth.requireAuth));
+  api.use('/continuity', continuityRouter(deps, auth.requireAuth));
+  api.use('/uploads', uploadsRouter(deps, auth.requireAuth));
+  api.use('/procedures', proceduresRouter(deps, auth.requireAuth));
+  api.use('/coupons', couponsRouter(deps, auth.requireAuth));
+  api.use('/qualifications', qualificationsRouter(deps, auth.requireAuth));
+  api.use('/verify', verifyRouter(deps));
   api.use('/audit', auditRouter(deps, auth.requireAuth));
+  api.use('/settings', settingsRouter(deps, auth.requireAuth));
+  api.use('/lapse-watch', lapseWatchRouter(deps, auth.requireAuth));
+  api.use('/overview', overviewRouter(deps, auth.requireAuth));
   if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps));
   api.use(apiNotFound);
   app.use('/api', api);

@@ -47,6 +47,8 @@ const envSchema = z
     APP_URL: z.preprocess(blankToUndefined, z.url().optional()),
     WEB_DIST: z.string().min(1).default('apps/web/dist'),
     LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+    VERIFY_RATE_LIMIT: z.coerce.number().int().min(1).default(60),
+    LAPSE_WATCH_ENABLED: bool.optional(),
   })
   .superRefine((env, ctx) => {
     if (env.NODE_ENV === 'production' && !env.JWT_SECRET)
@@ -92,6 +94,10 @@ export function loadConfig(env: Env = process.env) {
     appUrl: (e.APP_URL ?? `http://127.0.0.1:${e.PORT}`).replace(/\/+$/, ''),
     webDist: fromRoot(e.WEB_DIST),
     loginRateLimit: e.LOGIN_RATE_LIMIT,
+    /** Public verify page look-ups per client address per minute. */
+    verifyRateLimit: e.VERIFY_RATE_LIMIT,
+    /** The daily lapse-watch schedule in this instance (off under test unless asked for). */
+    lapseWatchEnabled: e.LAPSE_WATCH_ENABLED ?? e.NODE_ENV !== 'test',
   };
 }
 

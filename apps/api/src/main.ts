@@ -9,6 +9,7 @@ import { createMailer } from './lib/mailer.js';
 import { createStorage } from './lib/storage.js';
 import { systemClock } from './lib/context.js';
 import { createApp } from './app.js';
+import { startLapseWatchSchedule } from './jobs/lapse-watch.job.js';
 
 const config = loadConfig();
 const logger = createLogger(config);
@@ -39,6 +40,10 @@ const app = createApp({
   webDist: config.webDist,
 });
 
+const lapseWatch = config.lapseWatchEnabled
+  ? startLapseWatchSchedule({ config, dataSource, mailer, logger, clock: systemClock })
+  : null;
+
 const server = createServer(app);
 server.on('error', (err) => {
   logger.fatal({ err }, `cannot listen on ${config.host}:${config.port}`);
@@ -58,6 +63,7 @@ async function shutdown(signal: string) {
   forced.unref();
   server.closeIdleConnections();
   await new Promise<void>((resolve) => server.close(() => resolve()));
+  await lapseWatch?.stop();
   mailer.close();
   storage.close();
   await dataSource.destroy();

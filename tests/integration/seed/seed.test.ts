@@ -2,7 +2,8 @@ import { execFile } from 'node:child_process';
 import { fileURLToPath } from 'node:url';
 import { promisify } from 'node:util';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { meSchema } from '@beadroll/rules';
+import { meSchema, qualificationSchema } from '@beadroll/rules';
+import { z } from 'zod';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from '../../../apps/api/src/db/seed.js';
 import { bodyOf, signIn, startTestApi, type TestApi } from '../../support/api-app.js';
 
@@ -26,6 +27,27 @@ async function demoCounts(api: TestApi) {
   return row!;
 }
 
+async function recordCounts(api: TestApi) {
+  const [row] = await api.ds.query<
+    {
+      procedures: number;
+      superseded: number;
+      coupons: number;
+      qualifications: number;
+      uploads: number;
+      tokens: number;
+    }[]
+  >(`
+    WITH o AS (SELECT id FROM organizations WHERE name = 'Harrow Point Fabrication')
+    SELECT (SELECT count(*)::int FROM procedures WHERE organization_id IN (SELECT id FROM o)) AS procedures,
+           (SELECT count(*)::int FROM procedures WHERE organization_id IN (SELECT id FROM o) AND status = 'superseded') AS superseded,
+           (SELECT count(*)::int FROM coupons WHERE organization_id IN (SELECT id FROM o)) AS coupons,
+           (SELECT count(*)::int FROM qualifications WHERE organization_id IN (SELECT id FROM o)) AS qualifications,
+           (SELECT count(*)::int FROM uploads WHERE organization_id IN (SELECT id FROM o)) AS uploads,
+           (SELECT count(*)::int FROM verify_tokens WHERE organization_id IN (SELECT id FROM o) AND revoked_at IS NULL) AS tokens`);
+  return row!;
+}
+
 describe('the demo seed', () => {
   let api: TestApi;
   beforeAll(async () => {
@@ -36,10 +58,24 @@ describe('the demo seed', () => {
   it('runs twice without duplicating anything', async () => {
     await seedDemo(api.ds, api.config);
     const once = await demoCounts(api);
+    const records = await recordCounts(api);
     expect(once).toEqual({ orgs: 2, shops: 3, welders: 40, users: 4, assignments: 2 });
     const second = await seedDemo(api.ds, api.config);
-    expect(second.created).toEqual({ organizations: 0, shops: 0, welders: 0, users: 0 });
+    expect(second.created).toEqual({
+      organizations: 0,
+      shops: 0,
+      welders: 0,
+      users: 0,
+      procedures: 0,
+      coupons: 0,
+      qualifications: 0,
+      uploads: 0,
+      continuityEntries: 0,
+      revocations: 0,
+      renewals: 0,
+    });
     expect(await demoCounts(api)).toEqual(once);
+    expect(await recordCounts(api)).toEqual(records);
   });
 
   it('gives every demo account its role and shops', async () => {
@@ -64,6 +100,92 @@ describe('the demo seed', () => {
     expect(w?.stamp).toBe('PV-07');
     const other = await me(DEMO_ACCOUNTS.otherCompanyQa);
     expect(other.organization.name).toBe('Dunmore Kettle Works');
+  });
+
+  it('gives every demo welder one to four coupons of their shop’s codes, passes certified, a few rejects, and PV-07 a verify token', async () => {
+    await seedDemo(api.ds, api.config);
+    const records = await recordCounts(api);
+    expect(records).toMatchObject({ procedures: 8, superseded: 1, uploads: 3, tokens: 1 });
+    const perWelder = await api.ds.query<
+      { stamp: string; n: number; codes: string[]; rejects: number; certified: number; passes: number }[]
+    >(`
+      SELECT w.stamp, count(c.id)::int AS n, array_agg(DISTINCT c.code) AS codes,
+             count(*) FILTER (WHERE c.result = 'reject')::int AS rejects,
+             count(q.id)::int AS certified, count(*) FILTER (WHERE c.result = 'accept')::int AS passes
+        FROM welders w JOIN organizations o ON o.id = w.organization_id AND o.name = 'Harrow Point Fabrication'
+        LEFT JOIN coupons c ON c.welder_id = w.id LEFT JOIN qualifications q ON q.coupon_id = c.id
+       GROUP BY w.stamp`);
+    expect(perWelder).toHaveLength(40);
+    const codeOf: Record<string, string> = { PV: 'asme-ix', ST: 'aws-d1.1', PL: 'api-1104' };
+    for (const w of perWelder) {
+      expect(w.n).toBeGreaterThanOrEqual(1);
+      expect(w.n).toBeLessThanOrEqual(4);
+      expect(w.codes).toEqual([codeOf[w.stamp.slice(0, 2)]]);
+      expect(w.certified).toBe(w.passes);
+    }
+    expect(perWelder.reduce((a, w) => a + w.rejects, 0)).toBeGreaterThanOrEqual(3);
+    const qa = await signIn(api.app, DEMO_ACCOUNTS.welder, DEMO_PASSWORD);
+    const mine = (await qa.get('/api/qualifications').expect(200)).body as {
+      items: { status: { state: string } }[];
+    };
+    expect(mine.items.length).toBeGreaterThanOrEqual(2);
+    expect(mine.items.every((q) => q.status.state === 'current')).toBe(true);
+    const me = bodyOf(meSchema, await qa.get('/api/me').expect(200));
+    const card = await qa.get(`/api/welders/${me.welderId}/card.pdf`).expect(200);
+    expect(card.headers['content-type']).toBe('application/pdf');
+  });
+
+  it('shapes the continuity history relative to today: current, lapsing within 30 days, lapsed, revoked, renewed', async () => {
+    await seedDemo(api.ds, api.config);
+    const qa = await signIn(api.app, DEMO_ACCOUNTS.qa, DEMO_PASSWORD);
+    const { items } = bodyOf(z.object({ items: z.array(qualificationSchema) }), await qa.get('/api/qualifications').expect(200));
+    const inState = (state: string) => items.filter((q) => q.status.state === state);
+    expect(inState('current').length).toBeGreaterThan(items.length / 2); // a working company: most are current
+    const lapsing = inState('lapsing');
+    expect(lapsing.length).toBeGreaterThanOrEqual(1);
+    for (const q of lapsing) expect(q.status.daysLeft).toBeGreaterThan(0);
+    expect(lapsing.some((q) => q.status.daysLeft <= 30)).toBe(true);
+    // One or two working welders lapsed (welders who left the company lapse too, and are not counted).
+    const left = new Set(
+      (await api.ds.query<{ id: string }[]>(`SELECT id FROM welders WHERE NOT active`)).map((w) => w.id),
+    );
+    const lapsedWelders = new Set(inState('lapsed').filter((q) => !left.has(q.welder.id)).map((q) => q.welder.id));
+    expect(lapsedWelders.size).toBeGreaterThanOrEqual(1);
+    expect(lapsedWelders.size).toBeLessThanOrEqual(2);
+    const revoked = inState('revoked');
+    expect(revoked).toHaveLength(1);
+    expect(revoked[0]!.revokedReason).toMatch(/\w/);
+    // Logged use in the demo: the history of the current welders runs month by month up to this month.
+    const [logged] = await api.ds.query<{ entries: number; thisMonth: number }[]>(
+      `SELECT count(*)::int AS entries,
+              count(*) FILTER (WHERE e.month = date_trunc('month', current_date)::date)::int AS "thisMonth"
+         FROM continuity_entries e JOIN organizations o ON o.id = e.organization_id AND o.name = 'Harrow Point Fabrication'`,
+    );
+    expect(logged!.entries).toBeGreaterThan(100);
+    expect(logged!.thisMonth).toBeGreaterThan(10);
+    // Renewed: a pair that lapsed for lack of use and a passing coupon after it, now current again.
+    const [renewed] = await api.ds.query<{ welderId: string; process: string; code: string }[]>(
+      `SELECT s.welder_id AS "welderId", s.process, s.code FROM continuity_states s
+         JOIN organizations o ON o.id = s.organization_id AND o.name = 'Harrow Point Fabrication'
+        WHERE s.renewed_on IS NOT NULL`,
+    );
+    expect(renewed).toBeDefined();
+    const renewedQualifications = items.filter(
+      (q) => q.welder.id === renewed!.welderId && q.process === renewed!.process && q.code === renewed!.code,
+    );
+    expect(renewedQualifications.length).toBeGreaterThanOrEqual(2); // the lapsed one and the retest's
+    expect(renewedQualifications.every((q) => q.status.state === 'current')).toBe(true);
+    const timeline = (await qa.get(`/api/welders/${renewed!.welderId}/timeline`).expect(200)).body as {
+      processes: { process: string; code: string; events: { kind: string }[] }[];
+    };
+    const kinds = timeline.processes
+      .find((p) => p.process === renewed!.process && p.code === renewed!.code)
+      ?.events.map((e) => e.kind);
+    expect(kinds?.indexOf('lapse')).toBeGreaterThanOrEqual(0);
+    expect(kinds?.indexOf('renewal')).toBeGreaterThan(kinds?.indexOf('lapse') ?? Infinity);
+    // The stored states agree with a full recompute.
+    const { differingStates } = await import('../../../apps/api/src/continuity/continuity-state.repository.js');
+    expect(await differingStates(api.ds.manager)).toEqual([]);
   });
 
   it('refuses production: NODE_ENV=production or a database named *_prod', async () => {

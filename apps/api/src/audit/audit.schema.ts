@@ -3,7 +3,9 @@
 import { z } from 'zod';
 
 export const auditListQuery = z.object({
-  entityType: z.enum(['shop', 'person', 'welder']).optional(),
+  entityType: z
+    .enum(['shop', 'person', 'welder', 'procedure', 'coupon', 'qualification', 'upload', 'verify-token', 'continuity-entry', 'company-settings'])
+    .optional(),
   entityId: z.string().uuid('Not a valid id').optional(),
   page: z.coerce.number().int().min(1).optional().default(1),
 });

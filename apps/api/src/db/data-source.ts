@@ -9,7 +9,19 @@ import { ForemanShopEntity } from '../people/foreman-shop.entity.js';
 import { WelderEntity } from '../welders/welder.entity.js';
 import { AuthTokenEntity } from '../auth/auth-token.entity.js';
 import { AuditEventEntity } from '../audit/audit-event.entity.js';
+import { UploadEntity } from '../uploads/upload.entity.js';
+import { ProcedureEntity } from '../procedures/procedure.entity.js';
+import { CouponEntity, CouponUploadEntity } from '../coupons/coupon.entity.js';
+import { QualificationEntity } from '../qualifications/qualification.entity.js';
+import { VerifyTokenEntity } from '../verify/verify-token.entity.js';
 import { Foundation1764633600000 } from './migrations/1764633600000-foundation.js';
+import { Records1764720000000 } from './migrations/1764720000000-records.js';
+import { Continuity1764806400000 } from './migrations/1764806400000-continuity.js';
+import { ContinuityEntryEntity, ContinuityStateEntity } from '../continuity/continuity.entity.js';
+import { LapseWatch1764892800000 } from './migrations/1764892800000-lapse-watch.js';
+import { ContinuityIndexes1764979200000 } from './migrations/1764979200000-continuity-indexes.js';
+import { CompanySettingsEntity } from '../settings/company-settings.entity.js';
+import { LapseNoticeEntity, LapseWatchRunEntity, NoticeDeliveryEntity } from '../lapse-watch/lapse-watch.entity.js';
 
 export const entities = [
   OrganizationEntity,
@@ -19,8 +31,20 @@ export const entities = [
   WelderEntity,
   AuthTokenEntity,
   AuditEventEntity,
+  UploadEntity,
+  ProcedureEntity,
+  CouponEntity,
+  CouponUploadEntity,
+  QualificationEntity,
+  VerifyTokenEntity,
+  ContinuityEntryEntity,
+  ContinuityStateEntity,
+  CompanySettingsEntity,
+  LapseWatchRunEntity,
+  LapseNoticeEntity,
+  NoticeDeliveryEntity,
 ];
-export const migrations = [Foundation1764633600000];
+export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000];
 
 export interface DataSourceOptions {
   /** Pool size; the API default suits one instance on a small machine. */

@@ -7,6 +7,12 @@ import type { DataSource, EntityManager } from 'typeorm';
 import { loadConfig, type Config } from '../config.js';
 import { hashPassword } from '../auth/passwords.js';
 import { createDataSource, runMigrations } from './data-source.js';
+import { createStorage, type Storage } from '../lib/storage.js';
+import { createMailer } from '../lib/mailer.js';
+import { createLogger } from '../lib/logger.js';
+import { systemClock, type Clock } from '../lib/context.js';
+import { seedRecords, type RecordsSeedResult } from './seed-records.js';
+import { seedContinuity, type ContinuitySeedResult } from './seed-continuity.js';
 
 export const DEMO_PASSWORD = 'demo-weld-2026';
 export const DEMO_ACCOUNTS = {
@@ -84,7 +90,8 @@ export function assertSeedAllowed(config: Pick<Config, 'nodeEnv' | 'db'>): void 
 }
 
 export interface SeedResult {
-  created: { organizations: number; shops: number; welders: number; users: number };
+  created: { organizations: number; shops: number; welders: number; users: number } & RecordsSeedResult &
+    ContinuitySeedResult;
 }
 
 async function ensureOrganization(db: EntityManager, name: string, r: SeedResult): Promise<string> {
@@ -171,12 +178,27 @@ async function ensureUser(
 
 export async function seedDemo(
   dataSource: DataSource,
-  config: Pick<Config, 'nodeEnv' | 'db'>,
+  config: Config,
+  opts: { storage?: Storage; clock?: Clock } = {},
 ): Promise<SeedResult> {
   assertSeedAllowed(config);
   const passwordHash = await hashPassword(DEMO_PASSWORD);
-  const result: SeedResult = { created: { organizations: 0, shops: 0, welders: 0, users: 0 } };
-  await dataSource.transaction(async (db) => {
+  const result: SeedResult = {
+    created: {
+      organizations: 0,
+      shops: 0,
+      welders: 0,
+      users: 0,
+      procedures: 0,
+      coupons: 0,
+      qualifications: 0,
+      uploads: 0,
+      continuityEntries: 0,
+      revocations: 0,
+      renewals: 0,
+    },
+  };
+  const harrowId = await dataSource.transaction(async (db) => {
     // Two seeds at once (two terminals) would otherwise both create the organization.
     await db.query(`SELECT pg_advisory_xact_lock(hashtext('beadroll-demo-seed'))`);
 
@@ -253,7 +275,42 @@ export async function seedDemo(
       { email: DEMO_ACCOUNTS.otherCompanyQa, name: 'Sasha Threlkeld', role: 'qa_manager', passwordHash },
       result,
     );
+    return harrow;
   });
+
+  // The records go through the API's services (each write its own transaction), under a session lock so
+  // that two seeds at once do not both add them.
+  const storage = opts.storage ?? createStorage(config.s3);
+  const mailer = createMailer(config.smtp);
+  const runner = dataSource.createQueryRunner();
+  await runner.connect();
+  try {
+    await runner.query(`SELECT pg_advisory_lock(hashtext('beadroll-demo-records'))`);
+    const [qa] = (await runner.query(`SELECT id FROM users WHERE email = $1`, [DEMO_ACCOUNTS.qa])) as {
+      id: string;
+    }[];
+    const records = await seedRecords(
+      {
+        config,
+        dataSource,
+        storage,
+        mailer,
+        logger: createLogger(config),
+        clock: opts.clock ?? systemClock,
+      },
+      harrowId,
+      qa!.id,
+    );
+    Object.assign(result.created, records);
+    // Continuity history on top of the records (relative to today), in the same session lock.
+    const continuityDeps = { config, dataSource, storage, mailer, logger: createLogger(config), clock: opts.clock ?? systemClock };
+    Object.assign(result.created, await seedContinuity(continuityDeps, harrowId, qa!.id));
+  } finally {
+    await runner.query(`SELECT pg_advisory_unlock(hashtext('beadroll-demo-records'))`).catch(() => undefined);
+    await runner.release();
+    mailer.close();
+    if (!opts.storage) storage.close();
+  }
   return result;
 }
 
@@ -265,7 +322,8 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
     console.error(`beadroll: ${(err as Error).message}`);
     process.exit(1);
   }
-  const dataSource = createDataSource(config.db, { poolSize: 1 });
+  // One connection holds the seed's lock while the services write through the others.
+  const dataSource = createDataSource(config.db, { poolSize: 3 });
   try {
     await dataSource.initialize();
     await runMigrations(dataSource);
@@ -274,7 +332,7 @@ if (import.meta.url === pathToFileURL(process.argv[1] ?? '').href) {
     console.log(
       added === 0
         ? `beadroll: demo data already present in ${config.db.database}`
-        : `beadroll: demo data added to ${config.db.database} (${created.organizations} companies, ${created.shops} shops, ${created.welders} welders, ${created.users} sign-ins)`,
+        : `beadroll: demo data added to ${config.db.database} (${created.organizations} companies, ${created.shops} shops, ${created.welders} welders, ${created.users} sign-ins, ${created.procedures} WPS, ${created.coupons} coupons, ${created.qualifications} qualifications, ${created.uploads} files, ${created.continuityEntries} logged uses)`,
     );
     console.log(
       `beadroll: demo sign-ins (password ${DEMO_PASSWORD}): ${DEMO_ACCOUNTS.qa}, ${DEMO_ACCOUNTS.foreman}, ${DEMO_ACCOUNTS.welder}`,

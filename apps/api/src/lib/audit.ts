@@ -4,7 +4,9 @@ import type { Actor } from './scope.js';
 
 export interface AuditInput {
   action: string;
-  entityType: 'shop' | 'person' | 'welder';
+  entityType:
+    'shop' | 'person' | 'welder' | 'procedure' | 'coupon' | 'qualification' | 'upload' | 'verify-token'
+    | 'continuity-entry' | 'company-settings';
   entityId: string;
   before: Record<string, unknown> | null;
   after: Record<string, unknown> | null;

@@ -9,6 +9,7 @@ import { diff, recordAudit } from '../lib/audit.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
 import { companyShops } from '../shops/shops.service.js';
 import * as repo from './welders.repository.js';
+import { isoDay } from '../lib/dates.js';
 import type { EntityManager } from 'typeorm';
 
 type WelderInput = z.output<typeof welderInput>;
@@ -17,13 +18,18 @@ type ListQuery = z.output<typeof welderListQuery>;
 const stampTaken = (stamp: string, by: string) =>
   AppError.validation({ stamp: `Stamp ${stamp} is already used by ${by}` });
 
+/** Today: what each qualification's state in a list is decided by (with the company's lead time, read in the query). */
+function statusAsOf(deps: AppDeps): repo.StatusAsOf {
+  return { asOf: isoDay(deps.clock.now()) };
+}
+
 export async function listWelders(deps: AppDeps, actor: Actor, query: ListQuery): Promise<WelderPage> {
-  const { items, total } = await repo.listWelders(deps.dataSource.manager, actor, query);
+  const { items, total } = await repo.listWelders(deps.dataSource.manager, actor, query, statusAsOf(deps));
   return { items, total, page: query.page, pageSize: query.pageSize };
 }
 
 export async function getWelder(deps: AppDeps, actor: Actor, id: string): Promise<Welder> {
-  const welder = isUuid(id) ? await repo.findWelder(deps.dataSource.manager, actor, id) : null;
+  const welder = isUuid(id) ? await repo.findWelder(deps.dataSource.manager, actor, id, statusAsOf(deps)) : null;
   if (!welder) throw AppError.notFound('welder');
   return welder;
 }

@@ -158,12 +158,15 @@ export const welderUpdateInput = z.object({
 });
 export type WelderUpdateInput = z.infer<typeof welderUpdateInput>;
 
-export const welderSortKeys = ['stamp', 'name', 'homeShop', 'createdAt'] as const;
+export const welderSortKeys = ['stamp', 'name', 'homeShop', 'createdAt', 'lapsesOn'] as const;
+/** Continuity states a welders list can be filtered by (welders with at least one qualification in it). */
+export const welderStateFilters = ['current', 'lapsing', 'lapsed', 'revoked'] as const;
 
 export const welderListQuery = z.object({
   q: z.string().trim().max(100).optional(),
   shopId: uuid.optional(),
   status: z.enum(['active', 'left', 'all']).optional().default('active'),
+  state: z.enum(welderStateFilters).optional(),
   sort: z.enum(welderSortKeys).optional().default('stamp'),
   dir: z.enum(['asc', 'desc']).optional().default('asc'),
   page: z.coerce.number().int().min(1).optional().default(1),
@@ -182,6 +185,19 @@ export const welderSchema = z.object({
   hasAccount: z.boolean(),
   version: z.number().int(),
   createdAt: z.string(),
+  /** Non-superseded qualifications with their continuity state today (issue 5). */
+  qualifications: z
+    .array(
+      z.object({
+        id: z.string(),
+        process: z.string(),
+        code: z.string(),
+        state: z.enum(welderStateFilters),
+        lapsesOn: z.string(),
+        daysLeft: z.number().int(),
+      }),
+    )
+    .optional(),
 });
 export type Welder = z.infer<typeof welderSchema>;
 

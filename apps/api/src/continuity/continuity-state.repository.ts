@@ -1,0 +1,357 @@
+// The maintained continuity state of each (welder, process, code) pair, and the one set-based walk that
+// computes it. The walk reproduces the rules package's continuityStatus (TRADE.md §6) with window
+// functions: evidence (passing coupons of the welder and process as tests, logged use from every shop)
+// in date order, a test before a use on the same day; a use counts while it comes before the lapse date
+// computed from the previous evidence; once a gap reaches the lapse date every later use is ignored until
+// the next passing test, which renews the pair. The lapse date of each code is the rules package's own
+// PostgreSQL expression (lapseRules[code].sql), so the SQL and the function cannot drift apart on the
+// calendar arithmetic.
+//
+// A pair exists for every code and process the welder holds a certified qualification for (superseded
+// and revoked ones too, so every qualification has a state); its qualification date is the earliest test
+// date of those qualifications. Revocation is per qualification and applied when the status is read.
+import type { EntityManager } from 'typeorm';
+import { codeIds, DEFAULT_COMPANY_SETTINGS, lapseRules } from '@beadroll/rules';
+
+/** lapsesOn of each code from the last counted evidence and the latest counted test (SQL expressions). */
+export function lapsesOnSql(code: string, last: string, lastTest: string): string {
+  const branches = codeIds.map((id) => {
+    const sql = lapseRules[id].sql.replaceAll(':lastTest', `(${lastTest})`).replaceAll(':last', `(${last})`);
+    return `WHEN '${id}' THEN ${sql}`;
+  });
+  return `(CASE ${code} ${branches.join(' ')} END)`;
+}
+
+interface WalkOptions {
+  /** Extra conditions on the qualifications `q` that make the pairs (e.g. one welder and process). */
+  pairFilter?: string;
+  /** Evidence after this date plays no part (a SQL expression of type date); omitted: all evidence. */
+  asOf?: string;
+}
+
+/**
+ * The walk as CTEs: `pairs`, `walk` (one row per evidence with its flags) and `computed` (one row per
+ * pair with the state). Callers add their own final SELECT / INSERT.
+ */
+export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
+  const cut = (col: string) => (asOf ? `AND ${col} <= ${asOf}` : '');
+  const f = (last: string, lastTest: string) => lapsesOnSql('code', last, lastTest);
+  return `
+  pairs AS (
+    SELECT q.organization_id, q.welder_id, q.process, q.code, min(c.tested_on) AS qualified_on
+      FROM qualifications q JOIN coupons c ON c.id = q.coupon_id
+     WHERE true ${pairFilter}
+     GROUP BY q.organization_id, q.welder_id, q.process, q.code
+  ),
+  ev AS (
+    SELECT p.welder_id, p.process, p.code, p.qualified_on, c.tested_on AS d, 0 AS k, NULL::uuid AS entry_id
+      FROM pairs p
+      JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept' ${cut('c.tested_on')}
+    UNION ALL
+    SELECT p.welder_id, p.process, p.code, p.qualified_on, e.used_on, 1, e.id
+      FROM pairs p
+      JOIN continuity_entries e ON e.welder_id = p.welder_id AND e.process = p.process ${cut('e.used_on')}
+  ),
+  w1 AS (
+    SELECT ev.*, ev.d < ev.qualified_on AS pre,
+           row_number() OVER w AS rn,
+           lag(ev.d, 1, ev.qualified_on) OVER w AS prev,
+           coalesce(max(ev.d) FILTER (WHERE ev.k = 0) OVER (w ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING),
+                    ev.qualified_on) AS test_before
+      FROM ev
+    WINDOW w AS (PARTITION BY ev.welder_id, ev.process, ev.code, ev.d < ev.qualified_on ORDER BY ev.d, ev.k)
+  ),
+  w2 AS (
+    SELECT w1.*, ${f('w1.prev', 'w1.test_before')} AS lapse_if_gap,
+           w1.d >= ${f('w1.prev', 'w1.test_before')} AS gap
+      FROM w1
+  ),
+  w3 AS (
+    SELECT w2.*,
+           w2.k = 1 AND coalesce(
+             max(CASE WHEN w2.k = 1 AND w2.gap THEN w2.rn END) OVER w
+               > coalesce(max(CASE WHEN w2.k = 0 THEN w2.rn END) OVER w, 0),
+             false) AS broken
+      FROM w2
+    WINDOW w AS (PARTITION BY w2.welder_id, w2.process, w2.code, w2.pre ORDER BY w2.d, w2.k
+                 ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)
+  ),
+  walk AS (
+    SELECT w3.welder_id, w3.process, w3.code, w3.d, w3.k, w3.entry_id, w3.pre,
+           NOT w3.pre AND (w3.k = 0 OR NOT w3.broken) AS counted,
+           NOT w3.pre AND w3.k = 0 AND (w3.gap OR lag(w3.broken, 1, false) OVER w) AS renewal,
+           CASE WHEN NOT w3.pre AND w3.gap AND NOT lag(w3.broken, 1, false) OVER w THEN w3.lapse_if_gap END AS lapsed_on
+      FROM w3
+    WINDOW w AS (PARTITION BY w3.welder_id, w3.process, w3.code, w3.pre ORDER BY w3.d, w3.k)
+  ),
+  agg AS (
+    SELECT welder_id, process, code,
+           max(d) FILTER (WHERE counted) AS last_evidence,
+           max(d) FILTER (WHERE counted AND k = 0) AS last_test,
+           max(d) FILTER (WHERE renewal) AS renewed_on,
+           array_agg(d ORDER BY d, k) FILTER (WHERE pre OR (k = 1 AND NOT counted)) AS ignored
+      FROM walk GROUP BY welder_id, process, code
+  ),
+  computed0 AS (
+    SELECT p.organization_id, p.welder_id, p.process, p.code, p.qualified_on,
+           coalesce(a.last_evidence, p.qualified_on) AS last_evidence,
+           coalesce(a.last_test, p.qualified_on) AS last_test,
+           a.renewed_on, coalesce(a.ignored, '{}'::date[]) AS ignored
+      FROM pairs p LEFT JOIN agg a USING (welder_id, process, code)
+  ),
+  computed AS (
+    SELECT c.*, ${f('c.last_evidence', 'c.last_test')} AS lapses_on FROM computed0 c
+  )`;
+}
+
+/** The (welder, process) keys a change touched; every code the welder holds for the process is refreshed. */
+export interface PairKey {
+  welderId: string;
+  process: string;
+}
+
+const flagSql = (entryFilter: string) => `
+  UPDATE continuity_entries e
+     SET flagged_lapsed = f.flag,
+         review_status = CASE WHEN f.flag AND e.review_status IS NULL THEN 'pending'
+                              WHEN NOT f.flag AND e.review_status = 'pending' THEN NULL
+                              ELSE e.review_status END
+    FROM (SELECT x.id, EXISTS (SELECT 1 FROM continuity_states s
+                                WHERE s.welder_id = x.welder_id AND s.process = x.process
+                                  AND x.used_on >= s.qualified_on AND x.used_on = ANY (s.ignored)) AS flag
+            FROM continuity_entries x WHERE ${entryFilter}) f
+   WHERE e.id = f.id AND e.flagged_lapsed IS DISTINCT FROM f.flag`;
+
+const upsertStatesSql = `
+  INSERT INTO continuity_states AS s
+         (welder_id, process, code, organization_id, qualified_on, last_evidence, last_test, lapses_on,
+          renewed_on, ignored, updated_at)
+  SELECT welder_id, process, code, organization_id, qualified_on, last_evidence, last_test, lapses_on,
+         renewed_on, ignored, now()
+    FROM computed
+  ON CONFLICT (welder_id, process, code) DO UPDATE SET
+         organization_id = EXCLUDED.organization_id, qualified_on = EXCLUDED.qualified_on,
+         last_evidence = EXCLUDED.last_evidence, last_test = EXCLUDED.last_test,
+         lapses_on = EXCLUDED.lapses_on, renewed_on = EXCLUDED.renewed_on, ignored = EXCLUDED.ignored,
+         updated_at = now()
+   WHERE (s.qualified_on, s.last_evidence, s.last_test, s.lapses_on, s.renewed_on, s.ignored)
+         IS DISTINCT FROM (EXCLUDED.qualified_on, EXCLUDED.last_evidence, EXCLUDED.last_test,
+                           EXCLUDED.lapses_on, EXCLUDED.renewed_on, EXCLUDED.ignored)`;
+
+/**
+ * welders.soonest_lapses_on of the welders matching `welderFilter` (on `u.welder_id`, from `source`): the
+ * soonest lapsesOn among their qualifications in force (not superseded, not revoked) — the Welders list's
+ * sort key, kept with the states.
+ */
+const soonestLapseSql = (source: string) => `
+  UPDATE welders w SET soonest_lapses_on = x.m
+    FROM (SELECT u.welder_id,
+                 (SELECT min(cs.lapses_on) FROM qualifications q
+                    JOIN continuity_states cs ON cs.welder_id = q.welder_id AND cs.process = q.process AND cs.code = q.code
+                   WHERE q.welder_id = u.welder_id AND q.superseded_by_id IS NULL AND q.revoked_on IS NULL) AS m
+            FROM ${source}) x
+   WHERE w.id = x.welder_id AND w.soonest_lapses_on IS DISTINCT FROM x.m`;
+
+/**
+ * Recomputes the continuity state of the given pairs in the caller's transaction (four statements
+ * whatever their number: lock, upsert/delete, re-flag, the welders' soonest lapse) and re-flags the logged use of those pairs that
+ * fell on a lapsed date. Takes a transaction-scoped advisory lock per welder and process, in a fixed
+ * order, so two writers of the same pair refresh one after the other and the later one sees both changes.
+ */
+export async function refreshContinuityPairs(manager: EntityManager, keys: PairKey[], code?: string): Promise<void> {
+  const unique = [...new Map(keys.map((k) => [`${k.welderId}:${k.process}`, k])).values()].sort((a, b) =>
+    a.welderId === b.welderId ? a.process.localeCompare(b.process) : a.welderId.localeCompare(b.welderId),
+  );
+  if (unique.length === 0) return;
+  const welders = unique.map((k) => k.welderId);
+  const processes = unique.map((k) => k.process);
+  await lockPairs(manager, unique);
+  const keySet = `(SELECT * FROM unnest($1::uuid[], $2::text[]) AS k(welder_id, process))`;
+  const codeFilter = (a: string) => (code ? `AND ${a}.code = $3` : '');
+  const params: unknown[] = code ? [welders, processes, code] : [welders, processes];
+  await manager.query(
+    `WITH ${walkCtes({ pairFilter: `AND (q.welder_id, q.process) IN ${keySet} ${codeFilter('q')}` })},
+     upserted AS (${upsertStatesSql} RETURNING 1)
+     DELETE FROM continuity_states s
+      WHERE (s.welder_id, s.process) IN ${keySet} ${codeFilter('s')}
+        AND NOT EXISTS (SELECT 1 FROM computed c WHERE (c.welder_id, c.process, c.code) = (s.welder_id, s.process, s.code))`,
+    params,
+  );
+  // Use logged on a date the pair had already lapsed is not evidence: flag it for the QA manager's review.
+  // The ANY lets the planner reach the pairs' entries through the (welder_id, process, used_on) index.
+  await manager.query(flagSql(`x.welder_id = ANY ($1::uuid[]) AND (x.welder_id, x.process) IN ${keySet}`), [
+    welders,
+    processes,
+  ]);
+  await manager.query(soonestLapseSql(`(SELECT DISTINCT unnest($1::uuid[]) AS welder_id) u`), [welders]);
+}
+
+/** Takes the per-(welder, process) advisory locks in a fixed order (callers lock before they write). */
+export async function lockPairs(manager: EntityManager, keys: PairKey[]): Promise<void> {
+  const sorted = [...keys].sort((a, b) =>
+    a.welderId === b.welderId ? a.process.localeCompare(b.process) : a.welderId.localeCompare(b.welderId),
+  );
+  await manager.query(
+    `SELECT pg_advisory_xact_lock(hashtextextended('continuity:' || w || ':' || p, 0))
+       FROM unnest($1::uuid[], $2::text[]) WITH ORDINALITY AS k(w, p, n) ORDER BY n`,
+    [sorted.map((k) => k.welderId), sorted.map((k) => k.process)],
+  );
+}
+
+/** Every code the welder holds for the process, in the caller's transaction. */
+export function refreshContinuityStates(manager: EntityManager, welderId: string, process: string): Promise<void> {
+  return refreshContinuityPairs(manager, [{ welderId, process }]);
+}
+
+/** The contract's entry point: one pair (welder, process, code), in the caller's transaction. */
+export function refreshContinuityState(
+  manager: EntityManager,
+  welderId: string,
+  process: string,
+  code: string,
+): Promise<void> {
+  return refreshContinuityPairs(manager, [{ welderId, process }], code);
+}
+
+/** Every pair of a company (or of all companies), in one statement: the seed and the bench use it. */
+export async function refreshAllContinuityStates(manager: EntityManager, organizationId?: string): Promise<void> {
+  const params = organizationId ? [organizationId] : [];
+  await manager.query(
+    `WITH ${walkCtes({ pairFilter: organizationId ? 'AND q.organization_id = $1' : '' })} ${upsertStatesSql}`,
+    params,
+  );
+  await manager.query(flagSql(organizationId ? 'x.organization_id = $1' : 'true'), params);
+  await manager.query(
+    soonestLapseSql(`(SELECT id AS welder_id FROM welders ${organizationId ? 'WHERE organization_id = $1' : ''}) u`),
+    params,
+  );
+}
+
+export interface RecomputedState {
+  welderId: string;
+  process: string;
+  code: string;
+  organizationId: string;
+  qualifiedOn: string;
+  lastEvidence: string;
+  lastTest: string;
+  lapsesOn: string;
+  renewedOn: string | null;
+  ignored: string[];
+}
+
+const stateColumns = (a: string) => `
+  ${a}.welder_id AS "welderId", ${a}.process, ${a}.code, ${a}.organization_id AS "organizationId",
+  to_char(${a}.qualified_on, 'YYYY-MM-DD') AS "qualifiedOn", to_char(${a}.last_evidence, 'YYYY-MM-DD') AS "lastEvidence",
+  to_char(${a}.last_test, 'YYYY-MM-DD') AS "lastTest", to_char(${a}.lapses_on, 'YYYY-MM-DD') AS "lapsesOn",
+  to_char(${a}.renewed_on, 'YYYY-MM-DD') AS "renewedOn",
+  ARRAY(SELECT to_char(x, 'YYYY-MM-DD') FROM unnest(${a}.ignored) WITH ORDINALITY AS u(x, n) ORDER BY n) AS ignored`;
+
+/** The full recompute of every pair (of one company, or all) as of a date (default: all evidence). */
+export async function recomputeAll(
+  manager: EntityManager,
+  opts: { organizationId?: string; asOf?: string } = {},
+): Promise<RecomputedState[]> {
+  const params: string[] = [];
+  let pairFilter = '';
+  if (opts.organizationId) {
+    params.push(opts.organizationId);
+    pairFilter = `AND q.organization_id = $${params.length}`;
+  }
+  let asOf: string | undefined;
+  if (opts.asOf) {
+    params.push(opts.asOf);
+    asOf = `$${params.length}::date`;
+  }
+  return manager.query(
+    `WITH ${walkCtes({ pairFilter, ...(asOf ? { asOf } : {}) })}
+     SELECT ${stateColumns('c')} FROM computed c ORDER BY c.welder_id, c.process, c.code`,
+    params,
+  );
+}
+
+/** Pairs whose stored state differs from the full recompute (or is missing / left over). */
+export async function differingStates(
+  manager: EntityManager,
+): Promise<{ welderId: string; process: string; code: string; stored: unknown; recomputed: unknown }[]> {
+  return manager.query(
+    `WITH ${walkCtes()}
+     SELECT coalesce(c.welder_id, s.welder_id) AS "welderId", coalesce(c.process, s.process) AS process,
+            coalesce(c.code, s.code) AS code,
+            CASE WHEN s.welder_id IS NULL THEN NULL ELSE json_build_object(
+              'qualifiedOn', s.qualified_on, 'lastEvidence', s.last_evidence, 'lastTest', s.last_test,
+              'lapsesOn', s.lapses_on, 'renewedOn', s.renewed_on, 'ignored', s.ignored) END AS stored,
+            CASE WHEN c.welder_id IS NULL THEN NULL ELSE json_build_object(
+              'qualifiedOn', c.qualified_on, 'lastEvidence', c.last_evidence, 'lastTest', c.last_test,
+              'lapsesOn', c.lapses_on, 'renewedOn', c.renewed_on, 'ignored', c.ignored) END AS recomputed
+       FROM computed c
+       FULL JOIN continuity_states s USING (welder_id, process, code)
+      WHERE (c.qualified_on, c.last_evidence, c.last_test, c.lapses_on, c.renewed_on, c.ignored, c.organization_id)
+            IS DISTINCT FROM
+            (s.qualified_on, s.last_evidence, s.last_test, s.lapses_on, s.renewed_on, s.ignored, s.organization_id)
+      ORDER BY 1, 2, 3`,
+  );
+}
+
+/** The stored states of a company, for the agreement test and the timeline. */
+export async function storedStates(
+  manager: EntityManager,
+  f: { organizationId: string; welderId?: string },
+): Promise<RecomputedState[]> {
+  return manager.query(
+    `SELECT ${stateColumns('s')} FROM continuity_states s
+      WHERE s.organization_id = $1 ${f.welderId ? 'AND s.welder_id = $2' : ''}
+      ORDER BY s.welder_id, s.process, s.code`,
+    f.welderId ? [f.organizationId, f.welderId] : [f.organizationId],
+  );
+}
+
+/** One welder's evidence with the walk's verdict on each row, for the timeline. */
+export async function welderWalk(
+  manager: EntityManager,
+  welderId: string,
+): Promise<
+  {
+    process: string;
+    code: string;
+    date: string;
+    kind: 'test' | 'use';
+    entryId: string | null;
+    counted: boolean;
+    renewal: boolean;
+    lapsedOn: string | null;
+  }[]
+> {
+  return manager.query(
+    `WITH ${walkCtes({ pairFilter: 'AND q.welder_id = $1' })}
+     SELECT process, code, to_char(d, 'YYYY-MM-DD') AS date, CASE WHEN k = 0 THEN 'test' ELSE 'use' END AS kind,
+            entry_id AS "entryId", counted, renewal, to_char(lapsed_on, 'YYYY-MM-DD') AS "lapsedOn"
+       FROM walk ORDER BY process, code, d, k`,
+    [welderId],
+  );
+}
+
+/**
+ * The SQL of a qualification's state as of a date, from its row `q` and its pair's state `cs` — the same
+ * decision as qualificationStatus in the qualifications service: revoked from revoked_on; else lapsed
+ * when lapses_on <= asOf; lapsing within warnDays; else current.
+ */
+export function qualificationStateSql(q: string, cs: string, asOf: string, warnDays: string): string {
+  const lapses = qualificationLapsesOnSql(q, cs);
+  return `(CASE WHEN ${q}.revoked_on IS NOT NULL AND ${q}.revoked_on <= ${asOf} THEN 'revoked'
+               WHEN ${lapses} <= ${asOf} THEN 'lapsed'
+               WHEN ${lapses} - ${asOf} <= ${warnDays} THEN 'lapsing'
+               ELSE 'current' END)`;
+}
+
+/** lapsesOn of a qualification: its pair's, at most its revocation date (from memory: QW-322.1(b)). */
+export function qualificationLapsesOnSql(q: string, cs: string): string {
+  return `least(coalesce(${cs}.lapses_on, (SELECT c.tested_on FROM coupons c WHERE c.id = ${q}.coupon_id)), ${q}.revoked_on)`;
+}
+
+/** The company's largest lead time in days (company settings, L's table; the default when unset). */
+export function companyWarnDaysSql(organizationId: string): string {
+  const fallback = Math.max(...DEFAULT_COMPANY_SETTINGS.warnDays);
+  return `coalesce((SELECT max(x) FROM company_settings st, unnest(st.warn_days) AS x
+                     WHERE st.organization_id = ${organizationId}), ${fallback})`;
+}

@@ -1,0 +1,246 @@
+// The continuity log (foreman, monthly): the grid of a shop and month, its one-transaction save with the
+// continuity state of every touched pair refreshed and each change audited; the review queue of use
+// logged while lapsed; and a welder's continuity timeline per process.
+import { addMonths, daysBetween, processes, type Process } from '@beadroll/rules';
+import type { AppDeps } from '../lib/context.js';
+import { AppError } from '../lib/errors.js';
+import { isUuid, type Actor } from '../lib/scope.js';
+import { recordAudit } from '../lib/audit.js';
+import { isoDay } from '../lib/dates.js';
+import { getCompanySettings } from '../settings/settings.repository.js';
+import { getWelder } from '../welders/welders.service.js';
+import * as repo from './continuity.repository.js';
+import { lockPairs, refreshContinuityPairs, storedStates, welderWalk } from './continuity-state.repository.js';
+import type { GridSaveInput } from './continuity.schema.js';
+
+const firstDay = (month: string) => `${month}-01`;
+const today = (deps: AppDeps) => isoDay(deps.clock.now());
+
+function checkShopAccess(actor: Actor, shopId: string): void {
+  if (actor.role === 'welder') throw AppError.forbidden();
+  if (actor.role === 'foreman' && !actor.shopIds.includes(shopId))
+    throw AppError.forbidden('You can log continuity only for the shops you are assigned to');
+}
+
+async function shopOf(deps: AppDeps, actor: Actor, shopId: string) {
+  const [shop] = await deps.dataSource.manager.query<{ id: string; name: string; code: string }[]>(
+    `SELECT id, name, code FROM shops WHERE organization_id = $1 AND id = $2`,
+    [actor.organizationId, shopId],
+  );
+  if (!shop) throw AppError.notFound('shop');
+  return shop;
+}
+
+/** A month is closed once it is more than `closedMonthAfter` months before the current month. */
+function isClosed(month: string, todayIso: string, closedMonthAfter: number): boolean {
+  return firstDay(month) < addMonths(`${todayIso.slice(0, 7)}-01`, -closedMonthAfter);
+}
+
+export async function getGrid(deps: AppDeps, actor: Actor, q: { shopId: string; month: string }) {
+  checkShopAccess(actor, q.shopId);
+  const shop = await shopOf(deps, actor, q.shopId);
+  const db = deps.dataSource.manager;
+  const settings = await getCompanySettings(db, actor.organizationId);
+  const raw = await repo.gridRows(db, actor.organizationId, q.shopId, firstDay(q.month));
+  const columns = new Set<string>();
+  for (const r of raw) {
+    r.qualifiedProcesses.forEach((p) => columns.add(p));
+    r.entries.forEach((e) => columns.add(e.process));
+  }
+  const ordered = processes.filter((p) => columns.has(p));
+  return {
+    shop,
+    month: q.month,
+    closed: isClosed(q.month, today(deps), settings.closedMonthAfter),
+    processes: ordered,
+    rows: raw.map((r) => ({
+      welder: r.welder,
+      home: r.home,
+      qualifiedProcesses: r.qualifiedProcesses,
+      cells: Object.fromEntries(
+        ordered.map((p) => {
+          const e = r.entries.find((x) => x.process === p);
+          return [
+            p,
+            e
+              ? {
+                  entryId: e.entryId,
+                  usedOn: e.usedOn,
+                  jobReference: e.jobReference,
+                  note: e.note,
+                  flaggedLapsed: e.flaggedLapsed,
+                  version: e.version,
+                }
+              : null,
+          ];
+        }),
+      ),
+    })),
+  };
+}
+
+export async function addableWelders(deps: AppDeps, actor: Actor, q: { shopId: string; q?: string | undefined }) {
+  checkShopAccess(actor, q.shopId);
+  await shopOf(deps, actor, q.shopId);
+  return { items: await repo.addableWelders(deps.dataSource.manager, actor.organizationId, q.shopId, q.q) };
+}
+
+function checkCells(input: GridSaveInput, todayIso: string): void {
+  const fields: Record<string, string> = {};
+  if (input.month > todayIso.slice(0, 7)) fields.month = 'The month cannot be in the future';
+  const seen = new Set<string>();
+  input.cells.forEach((c, i) => {
+    if (c.usedOn.slice(0, 7) !== input.month) fields[`cells.${i}.usedOn`] = `The date must be within ${input.month}`;
+    else if (c.usedOn > todayIso) fields[`cells.${i}.usedOn`] = 'The date cannot be after today';
+    const key = `${c.welderId}:${c.process}`;
+    if (seen.has(key)) fields[`cells.${i}.process`] = 'This cell appears twice in the save';
+    seen.add(key);
+  });
+  input.remove.forEach((c, i) => {
+    if (seen.has(`${c.welderId}:${c.process}`)) fields[`remove.${i}.process`] = 'This cell is both saved and removed';
+  });
+  if (Object.keys(fields).length) throw AppError.validation(fields);
+}
+
+export async function saveGrid(deps: AppDeps, actor: Actor, input: GridSaveInput) {
+  checkShopAccess(actor, input.shopId);
+  await shopOf(deps, actor, input.shopId);
+  const todayIso = today(deps);
+  checkCells(input, todayIso);
+  const month = firstDay(input.month);
+  await deps.dataSource.transaction(async (db) => {
+    const settings = await getCompanySettings(db, actor.organizationId);
+    if (actor.role !== 'qa_manager' && isClosed(input.month, todayIso, settings.closedMonthAfter))
+      throw AppError.forbidden(
+        `${input.month} is closed (older than ${settings.closedMonthAfter} months); ask the QA manager to change it`,
+      );
+    const welders = await repo.weldersWithProcesses(db, actor.organizationId, [
+      ...new Set([...input.cells, ...input.remove].map((c) => c.welderId)),
+    ]);
+    const fields: Record<string, string> = {};
+    input.cells.forEach((c, i) => {
+      const held = welders.get(c.welderId);
+      if (!held) fields[`cells.${i}.welderId`] = 'Choose a welder of your company';
+      else if (!held.has(c.process)) fields[`cells.${i}.process`] = `The welder holds no ${c.process} qualification`;
+    });
+    input.remove.forEach((c, i) => {
+      if (!welders.has(c.welderId)) fields[`remove.${i}.welderId`] = 'Choose a welder of your company';
+    });
+    if (Object.keys(fields).length) throw AppError.validation(fields);
+
+    const keys = [...input.cells, ...input.remove].map((c) => ({ welderId: c.welderId, process: c.process }));
+    // Lock the pairs first (fixed order), so concurrent saves of overlapping cells serialize, not deadlock.
+    await lockPairs(db, keys);
+    const before = new Map(
+      (await repo.lockMonthEntries(db, actor.organizationId, input.shopId, month)).map((e) => [
+        `${e.welderId}:${e.process}`,
+        e,
+      ]),
+    );
+    const now = deps.clock.now();
+    const scope = { organizationId: actor.organizationId, shopId: input.shopId, month };
+    const written = await repo.upsertCells(db, { ...scope, loggedBy: actor.id, at: now }, input.cells);
+    const removed = await repo.removeCells(db, scope, input.remove);
+    await refreshContinuityPairs(db, keys);
+    const view = ({ id: _id, welderId: _w, version: _v, ...rest }: repo.EntrySnapshot) => rest;
+    // Every change of the save audited, in one statement.
+    await repo.insertEntryAudits(db, actor, now, [
+      ...written.map((w) => {
+        const old = before.get(`${w.welderId}:${w.process}`);
+        return {
+          action: w.inserted ? 'continuity-entry.created' : 'continuity-entry.updated',
+          entityId: w.id,
+          before: w.inserted || !old ? null : { ...view(old), shopId: input.shopId, welderId: w.welderId },
+          after: { ...view(w), shopId: input.shopId, welderId: w.welderId },
+        };
+      }),
+      ...removed.map((r) => ({
+        action: 'continuity-entry.removed',
+        entityId: r.id,
+        before: { ...view(r), shopId: input.shopId, welderId: r.welderId },
+        after: null,
+      })),
+    ]);
+  });
+  return getGrid(deps, actor, { shopId: input.shopId, month: input.month });
+}
+
+export async function reviewQueue(deps: AppDeps, actor: Actor) {
+  return { items: await repo.pendingReview(deps.dataSource.manager, actor.organizationId) };
+}
+
+export async function reviewEntry(deps: AppDeps, actor: Actor, id: string, input: { note: string }) {
+  if (!isUuid(id)) throw AppError.notFound('entry');
+  return deps.dataSource.transaction(async (db) => {
+    const now = deps.clock.now();
+    const row = await repo.markReviewed(db, actor.organizationId, id, { note: input.note, by: actor.id, at: now });
+    if (!row) throw AppError.notFound('entry');
+    if (!row.flaggedLapsed) throw AppError.conflict('Only use logged while lapsed waits for review');
+    await recordAudit(db, actor, now, {
+      action: 'continuity-entry.reviewed',
+      entityType: 'continuity-entry',
+      entityId: id,
+      before: { reviewStatus: 'pending' },
+      after: { reviewStatus: 'reviewed', reviewNote: input.note },
+    });
+    return { id, reviewStatus: 'reviewed' as const, reviewNote: input.note };
+  });
+}
+
+type EventKind = 'test' | 'use' | 'lapse' | 'renewal' | 'flag' | 'revocation';
+
+/** A welder's continuity per (process, code): tests, logged use, lapses, renewals, flags, revocations. */
+export async function welderTimeline(deps: AppDeps, actor: Actor, welderId: string) {
+  const welder = await getWelder(deps, actor, welderId);
+  const db = deps.dataSource.manager;
+  const asOf = today(deps);
+  const settings = await getCompanySettings(db, actor.organizationId);
+  const warnDays = Math.max(...settings.warnDays);
+  const [walk, states, history] = await Promise.all([
+    welderWalk(db, welder.id),
+    storedStates(db, { organizationId: actor.organizationId, welderId: welder.id }),
+    repo.welderHistory(db, welder.id),
+  ]);
+  const entries = new Map(history.entries.map((e) => [e.id, e]));
+  return {
+    processes: states.map((s) => {
+      const events: { date: string; kind: EventKind; detail: string }[] = [];
+      for (const r of walk.filter((x) => x.process === s.process && x.code === s.code)) {
+        if (r.lapsedOn && r.lapsedOn <= asOf)
+          events.push({ date: r.lapsedOn, kind: 'lapse', detail: 'Lapsed: no counted use or test within the window' });
+        if (r.kind === 'test') {
+          events.push({
+            date: r.date,
+            kind: 'test',
+            detail: r.counted ? 'Passing test coupon' : 'Passing test before the qualification date (not counted)',
+          });
+          if (r.renewal)
+            events.push({ date: r.date, kind: 'renewal', detail: 'Renewed by a passing test after the lapse' });
+          continue;
+        }
+        const e = r.entryId ? entries.get(r.entryId) : undefined;
+        const where = e ? `${e.shop}, job ${e.jobReference}${e.note ? ` (${e.note})` : ''}` : '';
+        events.push({ date: r.date, kind: 'use', detail: `Used ${s.process}: ${where}` });
+        if (!r.counted)
+          events.push({
+            date: r.date,
+            kind: 'flag',
+            detail:
+              r.date < s.qualifiedOn
+                ? 'Logged before the qualification date: not evidence'
+                : `Logged while lapsed: not evidence${e?.reviewStatus === 'reviewed' ? ' (reviewed)' : ', waiting for the QA manager'}`,
+          });
+      }
+      if (s.lapsesOn <= asOf && !events.some((x) => x.kind === 'lapse' && x.date === s.lapsesOn))
+        events.push({ date: s.lapsesOn, kind: 'lapse', detail: 'Lapsed: no counted use or test within the window' });
+      const quals = history.qualifications.filter((q) => q.process === s.process && q.code === s.code && !q.superseded);
+      for (const q of quals)
+        if (q.revokedOn) events.push({ date: q.revokedOn, kind: 'revocation', detail: `Revoked: ${q.revokedReason ?? ''}` });
+      events.sort((a, b) => (a.date < b.date ? -1 : a.date > b.date ? 1 : 0));
+      const allRevoked = quals.length > 0 && quals.every((q) => q.revokedOn && q.revokedOn <= asOf);
+      const daysLeft = daysBetween(asOf, s.lapsesOn);
+      const state = allRevoked ? 'revoked' : daysLeft <= 0 ? 'lapsed' : daysLeft <= warnDays ? 'lapsing' : 'current';
+      return { process: s.process as Process, code: s.code, events, state, lapsesOn: s.lapsesOn };
+    }),
+  };
+}
