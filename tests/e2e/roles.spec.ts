@@ -24,10 +24,10 @@ describe('signing in as each demo role', () => {
     await context.close();
   });
 
-  it('QA manager: Overview · Welders · Shops · People · Audit trail, each screen opens, sign-out ends the session', async () => {
+  it('QA manager: Overview · Welders · Continuity log · Coupons · Procedures · Shops · People · Lapse watch · Settings · Audit trail, each screen opens, sign-out ends the session', async () => {
     const { page, context } = await newSession(browser);
     await signIn(page, demo.qa.email);
-    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Shops', 'People', 'Audit trail']);
+    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Coupons', 'Procedures', 'Shops', 'People', 'Lapse watch', 'Settings', 'Audit trail']);
     await page.getByRole('heading', { name: 'Overview' }).waitFor();
     await page.getByRole('banner').getByText(demo.qa.name, { exact: true }).waitFor();
 
@@ -38,6 +38,16 @@ describe('signing in as each demo role', () => {
     await page.getByRole('cell', { name: demo.foreman.email, exact: true }).waitFor();
     await nav.getByRole('link', { name: 'Audit trail' }).click();
     await page.getByRole('heading', { name: 'Audit trail' }).waitFor();
+    await nav.getByRole('link', { name: 'Coupons' }).click();
+    await page.getByRole('heading', { name: 'Coupons' }).waitFor();
+    await nav.getByRole('link', { name: 'Procedures' }).click();
+    await page.getByRole('heading', { name: 'Procedures' }).waitFor();
+    await nav.getByRole('link', { name: 'Continuity log' }).click();
+    await page.getByRole('heading', { name: 'Continuity log' }).waitFor();
+    await nav.getByRole('link', { name: 'Lapse watch' }).click();
+    await page.getByRole('heading', { name: 'Lapse watch' }).waitFor();
+    await nav.getByRole('link', { name: 'Settings' }).click();
+    await page.getByRole('heading', { name: 'Settings' }).waitFor();
     await nav.getByRole('link', { name: 'Welders' }).click();
     await page.getByRole('columnheader', { name: 'Stamp' }).waitFor();
 
@@ -50,15 +60,17 @@ describe('signing in as each demo role', () => {
     await context.close();
   });
 
-  it("foreman: Overview · Welders only, the QA manager's screens refuse, and only their two shops' welders show", async () => {
+  it("foreman: Overview · Welders · Continuity log · Procedures, the QA manager's screens refuse, and only their two shops' welders show", async () => {
     const { page, context } = await newSession(browser);
     await signIn(page, demo.foreman.email);
-    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders']);
+    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Procedures']);
 
     for (const [path, heading] of [
       ['/shops', 'Shops'],
       ['/people', 'People'],
       ['/audit', 'Audit trail'],
+      ['/coupons', 'Coupons'],
+      ['/coupons/new', 'Record a coupon'],
     ] as const) {
       await page.goto(path);
       await page.getByRole('heading', { name: heading }).waitFor();
@@ -86,7 +98,8 @@ describe('signing in as each demo role', () => {
     await signIn(page, demo.welder.email);
     await page.waitForURL((url) => url.pathname === '/my-qualifications');
     expect(await mainNavigation(page)).toEqual(['My qualifications', 'Welder file']);
-    await page.getByText(/qualification records/).waitFor();
+    await page.getByRole('heading', { name: 'My qualifications' }).waitFor();
+    await page.getByText(/Ask your QA manager/).waitFor();
 
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Welder file' }).click();
     await page.getByRole('heading', { name: new RegExp(`${demo.welder.stamp}.*${demo.welder.name}`) }).waitFor();

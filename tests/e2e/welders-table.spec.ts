@@ -36,7 +36,7 @@ describe('the Welders table', () => {
     await andWaitForList(() => page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Welders' }).click());
     const headers = (await page.locator('thead th').allTextContents()).map((t) => t.trim());
     // The QA manager's last column holds the Edit buttons; its header is for screen readers only.
-    expect(headers).toEqual(['Stamp', 'Name', 'Home shop', 'E-mail', 'Status', 'Actions']);
+    expect(headers).toEqual(['Stamp', 'Name', 'Home shop', 'E-mail', 'Status', 'Qualifications', 'Soonest lapse', 'Actions']);
     expect(await page.locator('thead th').last().locator('.sr-only').count()).toBe(1);
     expect(await page.getByRole('columnheader', { name: 'Stamp' }).getAttribute('aria-sort')).toBe('ascending');
     await page.getByText(/^1–25 of \d+ welders$/).waitFor();

@@ -28,6 +28,8 @@ export function createRouter(queryClient: QueryClient) {
     { path: paths.forgotPassword.path, lazy: page(() => import('./routes/auth/forgot-password')) },
     { path: paths.devMail.path, lazy: page(() => import('./routes/dev/mail')) },
     { path: paths.devMailMessage.path, lazy: page(() => import('./routes/dev/mail-message')) },
+    // The public Verify page: no sign-in and no shell, reached from the QR code on a wallet card.
+    { path: paths.verify.path, lazy: page(() => import('./routes/public/verify')) },
     {
       id: 'app',
       path: '/',
@@ -56,6 +58,13 @@ export function createRouter(queryClient: QueryClient) {
         { path: paths.shops.path, lazy: page(() => import('./routes/app/shops')) },
         { path: paths.people.path, lazy: page(() => import('./routes/app/people')) },
         { path: paths.audit.path, lazy: page(() => import('./routes/app/audit')) },
+        { path: paths.procedures.path, lazy: page(() => import('./routes/app/procedures')) },
+        { path: paths.coupons.path, lazy: page(() => import('./routes/app/coupons')) },
+        { path: paths.couponNew.path, lazy: page(() => import('./routes/app/coupon-new')) },
+        { path: paths.coupon.path, lazy: page(() => import('./routes/app/coupon')) },
+        { path: paths.continuity.path, lazy: page(() => import('./routes/app/continuity')) },
+        { path: paths.lapseWatch.path, lazy: page(() => import('./routes/app/lapse-watch')) },
+        { path: paths.settings.path, lazy: page(() => import('./routes/app/settings')) },
         { path: '*', lazy: page(() => import('./routes/app/not-found')) },
           ],
         },

@@ -14,6 +14,22 @@ export const paths = {
   shops: { path: '/shops', href: () => '/shops' },
   people: { path: '/people', href: () => '/people' },
   audit: { path: '/audit', href: () => '/audit' },
+  procedures: { path: '/procedures', href: (search?: string) => (search ? `/procedures?${search}` : '/procedures') },
+  coupons: { path: '/coupons', href: (search?: string) => (search ? `/coupons?${search}` : '/coupons') },
+  couponNew: {
+    path: '/coupons/new',
+    href: (prefill?: Record<string, string | undefined>) => {
+      const params = new URLSearchParams();
+      for (const [key, value] of Object.entries(prefill ?? {})) if (value) params.set(key, value);
+      const qs = params.toString();
+      return qs ? `/coupons/new?${qs}` : '/coupons/new';
+    },
+  },
+  continuity: { path: '/continuity', href: (search?: string) => (search ? `/continuity?${search}` : '/continuity') },
+  lapseWatch: { path: '/lapse-watch', href: () => '/lapse-watch' },
+  settings: { path: '/settings', href: () => '/settings' },
+  coupon: { path: '/coupons/:id', href: (id: string) => `/coupons/${encodeURIComponent(id)}` },
+  verify: { path: '/verify/:token', href: (token: string) => `/verify/${encodeURIComponent(token)}` },
   devMail: { path: '/dev/mail', href: () => '/dev/mail' },
   devMailMessage: { path: '/dev/mail/:id', href: (id: string) => `/dev/mail/${encodeURIComponent(id)}` },
 } as const;

@@ -86,13 +86,18 @@ export function buildUrl(path: string, query?: Query): string {
 
 async function send(path: string, options: RequestOptions): Promise<Response> {
   const { method = 'GET', body, query, signal, redirectOn401 = true } = options;
+  // A FormData body (an upload) goes as multipart; the browser writes its boundary into the header.
+  const multipart = body instanceof FormData;
   let response: Response;
   try {
     response = await fetch(buildUrl(path, query), {
       method,
       credentials: 'include',
-      headers: { Accept: 'application/json', ...(body === undefined ? {} : { 'Content-Type': 'application/json' }) },
-      body: body === undefined ? undefined : JSON.stringify(body),
+      headers: {
+        Accept: 'application/json',
+        ...(body === undefined || multipart ? {} : { 'Content-Type': 'application/json' }),
+      },
+      body: body === undefined ? undefined : multipart ? body : JSON.stringify(body),
       signal,
     });
   } catch (cause) {

@@ -103,8 +103,8 @@ describe('WeldersTable', () => {
       </MemoryRouter>,
     );
     const headers = screen.getAllByRole('columnheader').map((h) => h.textContent);
-    expect(headers).toEqual(['Stamp', 'Name', 'Home shop', 'E-mail', 'Status']);
-    for (const sortable of ['Stamp', 'Name', 'Home shop']) expect(screen.getByRole('button', { name: sortable })).toBeTruthy();
+    expect(headers).toEqual(['Stamp', 'Name', 'Home shop', 'E-mail', 'Status', 'Qualifications', 'Soonest lapse']);
+    for (const sortable of ['Stamp', 'Name', 'Home shop', 'Soonest lapse']) expect(screen.getByRole('button', { name: sortable })).toBeTruthy();
     expect(screen.queryByRole('button', { name: 'Status' })).toBeNull();
 
     const left = screen.getByText('Left');

@@ -30,11 +30,19 @@ export const statuses = {
   // a shop
   'shop.active': { label: 'Active', tone: 'good', icon: CheckCircleIcon },
   'shop.inactive': { label: 'Inactive', tone: 'neutral', icon: MinusCircleIcon },
-  // a qualification (filled by later screens)
+  // a qualification
   'qualification.current': { label: 'Current', tone: 'good', icon: CheckCircleIcon },
   'qualification.lapsing': { label: 'Lapsing', tone: 'warn', icon: ClockIcon },
   'qualification.lapsed': { label: 'Lapsed', tone: 'bad', icon: AlertIcon },
   'qualification.revoked': { label: 'Revoked', tone: 'bad', icon: BanIcon },
+  'qualification.superseded': { label: 'Superseded', tone: 'neutral', icon: MinusCircleIcon },
+  // the verdict on a test coupon (visual and examination together)
+  'coupon.accept': { label: 'Accept', tone: 'good', icon: CheckCircleIcon },
+  'coupon.reject': { label: 'Reject', tone: 'bad', icon: BanIcon },
+  'coupon.replace-specimen': { label: 'Replace specimen', tone: 'warn', icon: AlertIcon },
+  // a WPS in the register
+  'procedure.active': { label: 'Active', tone: 'good', icon: CheckCircleIcon },
+  'procedure.superseded': { label: 'Superseded', tone: 'neutral', icon: MinusCircleIcon },
 } satisfies Record<string, StatusDef>;
 
 export type StatusKey = keyof typeof statuses;

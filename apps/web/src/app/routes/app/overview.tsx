@@ -1,75 +1,266 @@
+// Overview (QA manager: every shop; foreman: their shops): qualification statuses per shop, lapses due
+// in the next 90 days by week, the review queue of use logged while lapsed, and the latest lapse-watch run.
+import type { ReviewEntry } from '@beadroll/rules';
 import { useQuery } from '@tanstack/react-query';
+import { useState } from 'react';
 import { Link } from 'react-router-dom';
+import { Button, ButtonLink } from '@/components/ui/button';
+import { Dialog, DialogActions } from '@/components/ui/dialog';
+import { FormError, TextField } from '@/components/ui/field';
+import { AlertIcon } from '@/components/ui/icons';
 import { Card, PageHeader } from '@/components/ui/page-header';
+import { SafetyNotice } from '@/components/ui/safety-notice';
 import { StatusChip } from '@/components/ui/status-chip';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
-import { shopQueries } from '@/features/shops/api/shop-queries';
+import { continuityQueries } from '@/features/continuity/api/continuity-queries';
+import { useReviewEntry } from '@/features/continuity/api/review-entry';
+import { RunSummary } from '@/features/lapse-watch/components/run-summary';
+import { overviewQueries } from '@/features/overview/api/overview-queries';
+import { LapsesChart } from '@/features/overview/components/lapses-chart';
 import { writeWelderSearch } from '@/features/welders/api/welder-search';
+import { errorMessage, isApiError } from '@/lib/api-client';
 import { useUser } from '@/lib/auth';
+
+const states = ['current', 'lapsing', 'lapsed', 'revoked'] as const;
 
 export default function OverviewRoute() {
   const me = useUser();
-  const shops = useQuery(shopQueries.list());
-  const shown = shops.data?.filter((s) => s.active) ?? [];
-  const total = shown.reduce((sum, s) => sum + s.welderCount, 0);
+  const overview = useQuery(overviewQueries.summary());
+  const isQa = me.role === 'qa_manager';
 
   return (
     <>
       <PageHeader
         title="Overview"
         description={
-          me.role === 'qa_manager'
+          isQa
             ? `Welcome, ${me.name}. Every shop of ${me.organization.name} at a glance.`
             : `Welcome, ${me.name}. The shops you look after.`
         }
       />
-      {shops.isPending ? (
-        <LoadingState label="Loading shops…" />
-      ) : shops.isError ? (
-        <ErrorState error={shops.error} onRetry={() => void shops.refetch()} />
-      ) : shown.length === 0 ? (
+      {overview.isPending ? (
+        <LoadingState label="Loading the overview…" />
+      ) : overview.isError ? (
+        <ErrorState error={overview.error} onRetry={() => void overview.refetch()} />
+      ) : overview.data.counts.length === 0 ? (
         <EmptyState title="No shops yet">
-          {me.role === 'qa_manager' ? (
+          {isQa ? (
             <>
-              Start by creating the company&apos;s shops on the <Link className="font-semibold text-accent-700 underline" to={paths.shops.href()}>Shops</Link> screen.
+              Start by creating the company&apos;s shops on the{' '}
+              <Link className="font-semibold text-accent-700 underline" to={paths.shops.href()}>
+                Shops
+              </Link>{' '}
+              screen.
             </>
           ) : (
             'You are not assigned to a shop yet. Ask your QA manager to assign you.'
           )}
         </EmptyState>
       ) : (
-        <>
-          <h2 className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">Welders per shop</h2>
-          <ul className="grid gap-3 sm:grid-cols-2 lg:grid-cols-3">
-            {shown.map((shop) => (
-              <li key={shop.id}>
-                <Link
-                  to={paths.welders.href(writeWelderSearch({ shopId: shop.id }).toString())}
-                  className="block rounded-lg border border-stone-200 bg-white p-4 shadow-sm transition hover:border-accent-500 hover:shadow"
-                >
-                  <div className="flex items-center justify-between gap-2">
-                    <span className="tabular-nums text-xs font-semibold text-stone-500">{shop.code}</span>
-                    <StatusChip status="shop.active" />
-                  </div>
-                  <p className="mt-1 font-semibold text-stone-900">{shop.name}</p>
-                  {shop.location && <p className="text-sm text-stone-500">{shop.location}</p>}
-                  <p className="mt-3 text-3xl font-bold text-accent-700">
-                    {shop.welderCount}
-                    <span className="ml-1.5 text-sm font-semibold text-stone-600">{shop.welderCount === 1 ? 'welder' : 'welders'}</span>
+        <div className="space-y-5">
+          {overview.data.failedDeliveries > 0 && (
+            <p role="alert" className="flex items-start gap-2 rounded-md border border-red-200 bg-red-50 px-3 py-2 text-sm text-red-800">
+              <AlertIcon className="mt-0.5 size-4 shrink-0" />
+              <span>
+                {overview.data.failedDeliveries} lapse warning {overview.data.failedDeliveries === 1 ? 'e-mail' : 'e-mails'} could not be
+                delivered after repeated tries.{' '}
+                {isQa && (
+                  <Link className="font-semibold underline" to={paths.lapseWatch.href()}>
+                    See them in Lapse watch
+                  </Link>
+                )}
+              </span>
+            </p>
+          )}
+          <section aria-labelledby="counts-heading">
+            <h2 id="counts-heading" className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">
+              Qualifications by status, as of {overview.data.asOf}
+            </h2>
+            <Card className="overflow-x-auto">
+              <table className="min-w-full text-sm">
+                <thead className="bg-stone-50">
+                  <tr>
+                    <th scope="col" className="px-3 py-2 text-left">Shop</th>
+                    {states.map((s) => (
+                      <th key={s} scope="col" className="px-3 py-2 text-right">
+                        <StatusChip status={`qualification.${s}`} />
+                      </th>
+                    ))}
+                  </tr>
+                </thead>
+                <tbody className="divide-y divide-stone-100">
+                  {overview.data.counts.map((row) => (
+                    <tr key={row.shop.id}>
+                      <th scope="row" className="px-3 py-2 text-left font-semibold">
+                        <span className="tabular-nums text-xs text-stone-500">{row.shop.code}</span> {row.shop.name}
+                      </th>
+                      {states.map((s) => (
+                        <td key={s} className="px-3 py-2 text-right tabular-nums">
+                          {row[s] > 0 ? (
+                            <Link
+                              className="inline-flex min-h-11 items-center justify-end font-semibold text-accent-700 hover:underline sm:min-h-0"
+                              to={paths.welders.href(writeWelderSearch({ shopId: row.shop.id, state: s }).toString())}
+                              aria-label={`${row[s]} ${s} in ${row.shop.name}`}
+                            >
+                              {row[s]}
+                            </Link>
+                          ) : (
+                            <span className="text-stone-400">0</span>
+                          )}
+                        </td>
+                      ))}
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </Card>
+          </section>
+          <div className="grid gap-5 lg:grid-cols-[minmax(0,2fr)_minmax(0,1fr)]">
+            <section aria-labelledby="chart-heading">
+              <h2 id="chart-heading" className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">
+                Lapses due in the next 90 days, by week
+              </h2>
+              <Card className="p-4">
+                <LapsesChart weeks={overview.data.lapsesByWeek} />
+              </Card>
+            </section>
+            <div className="space-y-5">
+              <section aria-labelledby="review-heading">
+                <h2 id="review-heading" className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">
+                  Review queue
+                </h2>
+                <Card className="p-4">
+                  <p className="text-3xl font-bold text-accent-700">
+                    {overview.data.reviewQueue}
+                    <span className="ml-1.5 text-sm font-semibold text-stone-600">
+                      {overview.data.reviewQueue === 1 ? 'entry' : 'entries'} logged while lapsed
+                    </span>
                   </p>
-                </Link>
-              </li>
-            ))}
-          </ul>
-          <p className="mt-3 text-sm text-stone-600">
-            {total} {total === 1 ? 'welder' : 'welders'} in {shown.length} {shown.length === 1 ? 'shop' : 'shops'}.
-          </p>
-          <Card className="mt-6 p-4 text-sm text-stone-600">
-            Continuity, lapse warnings and qualification counts will appear here as the qualification records arrive.
-          </Card>
-        </>
+                  <p className="mt-1 text-sm text-stone-600">Use logged after a qualification lapsed is not evidence; the welds may need disposition.</p>
+                  {isQa && overview.data.reviewQueue > 0 && (
+                    <a className="mt-2 inline-flex min-h-11 items-center font-semibold text-accent-700 underline sm:min-h-0" href="#review-list">
+                      Open the review list
+                    </a>
+                  )}
+                </Card>
+              </section>
+              <section aria-labelledby="run-heading">
+                <h2 id="run-heading" className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">
+                  Latest lapse watch
+                </h2>
+                <Card className="p-4 text-sm">
+                  <RunSummary run={overview.data.latestRun} />
+                  {isQa && (
+                    <ButtonLink className="mt-3" to={paths.lapseWatch.href()}>
+                      Open Lapse watch
+                    </ButtonLink>
+                  )}
+                </Card>
+              </section>
+            </div>
+          </div>
+          {isQa && <ReviewList />}
+        </div>
       )}
+      <SafetyNotice className="mt-5" />
     </>
+  );
+}
+
+function ReviewList() {
+  const queue = useQuery(continuityQueries.review());
+  const [open, setOpen] = useState<ReviewEntry | null>(null);
+  return (
+    <section aria-labelledby="review-list-heading" id="review-list">
+      <h2 id="review-list-heading" className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">
+        Logged while lapsed: waiting for review
+      </h2>
+      {queue.isPending ? (
+        <LoadingState label="Loading the review queue…" />
+      ) : queue.isError ? (
+        <ErrorState error={queue.error} onRetry={() => void queue.refetch()} />
+      ) : queue.data.length === 0 ? (
+        <Card className="p-4 text-sm text-stone-600">Nothing waits for review.</Card>
+      ) : (
+        <Card className="overflow-x-auto">
+          <table className="min-w-full text-sm">
+            <thead className="bg-stone-50 text-left">
+              <tr>
+                <th scope="col" className="px-3 py-2">Welder</th>
+                <th scope="col" className="px-3 py-2">Process</th>
+                <th scope="col" className="px-3 py-2">Used on</th>
+                <th scope="col" className="px-3 py-2">Shop · job</th>
+                <th scope="col" className="px-3 py-2">Logged by</th>
+                <th scope="col" className="px-3 py-2"><span className="sr-only">Actions</span></th>
+              </tr>
+            </thead>
+            <tbody className="divide-y divide-stone-100">
+              {queue.data.map((e) => (
+                <tr key={e.id}>
+                  <td className="px-3 py-2">
+                    <Link className="font-semibold text-accent-700 hover:underline" to={paths.welder.href(e.welder.id)}>
+                      {e.welder.stamp}
+                    </Link>{' '}
+                    {e.welder.name}
+                  </td>
+                  <td className="px-3 py-2">{e.process}</td>
+                  <td className="px-3 py-2 tabular-nums">{e.usedOn}</td>
+                  <td className="px-3 py-2">
+                    {e.shop.code} · {e.jobReference}
+                    {e.note ? <span className="text-stone-500"> ({e.note})</span> : null}
+                  </td>
+                  <td className="px-3 py-2">{e.loggedBy ?? 'unknown'}</td>
+                  <td className="px-3 py-2 text-right">
+                    <Button size="row" onClick={() => setOpen(e)} aria-label={`Review ${e.welder.stamp} ${e.process} ${e.usedOn}`}>
+                      Review
+                    </Button>
+                  </td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </Card>
+      )}
+      <ReviewDialog entry={open} onClose={() => setOpen(null)} />
+    </section>
+  );
+}
+
+function ReviewDialog({ entry, onClose }: { entry: ReviewEntry | null; onClose: () => void }) {
+  const review = useReviewEntry();
+  const [note, setNote] = useState('');
+  const close = () => {
+    setNote('');
+    review.reset();
+    onClose();
+  };
+  return (
+    <Dialog
+      open={entry !== null}
+      onClose={close}
+      title={entry ? `Review ${entry.welder.stamp} · ${entry.process} on ${entry.usedOn}` : ''}
+      description="This use was logged after the qualification had lapsed, so it does not count as evidence. Note what was decided about the welds."
+    >
+      {entry && (
+        <form
+          onSubmit={(e) => {
+            e.preventDefault();
+            review.mutate({ id: entry.id, note }, { onSuccess: close });
+          }}
+        >
+          <TextField label="Disposition note" value={note} maxLength={500} onChange={(e) => setNote(e.target.value)} error={isApiError(review.error) ? review.error.fields.note : undefined} />
+          <FormError message={review.error ? errorMessage(review.error) : undefined} />
+          <DialogActions>
+            <Button onClick={close} disabled={review.isPending}>
+              Cancel
+            </Button>
+            <Button type="submit" variant="primary" busy={review.isPending}>
+              Mark reviewed
+            </Button>
+          </DialogActions>
+        </form>
+      )}
+    </Dialog>
   );
 }

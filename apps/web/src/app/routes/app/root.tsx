@@ -24,14 +24,21 @@ export function navigationFor(me: Me): NavItem[] {
       return [
         { label: 'Overview', to: paths.overview.href(), end: true },
         { label: 'Welders', to: paths.welders.href() },
+        { label: 'Continuity log', to: paths.continuity.href() },
+        { label: 'Coupons', to: paths.coupons.href() },
+        { label: 'Procedures', to: paths.procedures.href() },
         { label: 'Shops', to: paths.shops.href() },
         { label: 'People', to: paths.people.href() },
+        { label: 'Lapse watch', to: paths.lapseWatch.href() },
+        { label: 'Settings', to: paths.settings.href() },
         { label: 'Audit trail', to: paths.audit.href() },
       ];
     case 'foreman':
       return [
         { label: 'Overview', to: paths.overview.href(), end: true },
         { label: 'Welders', to: paths.welders.href() },
+        { label: 'Continuity log', to: paths.continuity.href() },
+        { label: 'Procedures', to: paths.procedures.href() },
       ];
     case 'welder':
       return [

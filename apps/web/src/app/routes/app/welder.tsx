@@ -1,17 +1,27 @@
-// The welder file: identity, stamp, home shop, contact, sign-in, and (for the QA manager) the record's
-// audit history. A welder sees their own file; a foreman sees the files of their shops' welders.
-import type { Welder } from '@beadroll/rules';
+// The welder file: identity, stamp, home shop, contact, sign-in; every qualification with its ranges and
+// status, every coupon (passed and failed), the attached files; for the QA manager the verify link and
+// the record's audit history. A welder sees their own file; a foreman sees the files of their shops' welders.
+import type { CouponRecord, Qualification, Upload, Welder } from '@beadroll/rules';
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import { useState, type ReactNode } from 'react';
 import { Link, useParams } from 'react-router-dom';
-import { Button } from '@/components/ui/button';
+import { Button, ButtonLink, buttonClasses } from '@/components/ui/button';
 import { ConfirmDialog, Dialog } from '@/components/ui/dialog';
-import { ChevronLeftIcon } from '@/components/ui/icons';
+import { ChevronLeftIcon, PlusIcon } from '@/components/ui/icons';
 import { Card, PageHeader } from '@/components/ui/page-header';
 import { StatusChip } from '@/components/ui/status-chip';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
+import { ContinuitySummary } from '@/features/continuity/components/continuity-timeline';
+import { formatBytes } from '@/components/ui/upload-input';
 import { auditQueries } from '@/features/audit/api/audit-queries';
+import { couponQueries } from '@/features/coupons/api/coupon-queries';
+import { CouponsTable } from '@/features/coupons/components/coupons-table';
+import { qualificationQueries, walletCardUrl } from '@/features/qualifications/api/qualification-queries';
+import { QualificationCard } from '@/features/qualifications/components/qualification-card';
+import { RevokeDialog } from '@/features/qualifications/components/revoke-dialog';
+import { VerifyLinkPanel } from '@/features/verify/components/verify-link-panel';
+import { uploadContentUrl } from '@/lib/uploads';
 import { AuditTable } from '@/features/audit/components/audit-table';
 import { peopleQueries } from '@/features/people/api/people-queries';
 import { shopQueries } from '@/features/shops/api/shop-queries';
@@ -47,6 +57,105 @@ function WelderHistory({ welderId }: { welderId: string }) {
         <AuditTable events={history.data.items} showRecord={false} shops={shops.data} />
       )}
     </section>
+  );
+}
+
+function WelderQualifications({ welderId, isQa }: { welderId: string; isQa: boolean }) {
+  const list = useQuery(qualificationQueries.list({ welderId, state: 'all' }));
+  const [revoking, setRevoking] = useState<Qualification | null>(null);
+  const items = list.data?.items ?? [];
+  const current = items.filter((q) => !q.supersededById);
+  const superseded = items.filter((q) => q.supersededById);
+  return (
+    <section className="mt-6" aria-labelledby="qualifications-heading">
+      <h2 id="qualifications-heading" className="mb-2 text-lg font-bold">
+        Qualifications
+      </h2>
+      {list.isPending ? (
+        <LoadingState label="Loading qualifications…" />
+      ) : list.isError ? (
+        <ErrorState error={list.error} onRetry={() => void list.refetch()} />
+      ) : items.length === 0 ? (
+        <p className="rounded-lg border border-dashed border-stone-300 bg-white px-4 py-6 text-sm text-stone-600">
+          No certified qualification yet. A passing coupon becomes a qualification when the QA manager certifies it.
+        </p>
+      ) : (
+        <div className="space-y-3">
+          {[...current, ...superseded].map((q) => (
+            <QualificationCard
+              key={q.id}
+              qualification={q}
+              actions={
+                isQa &&
+                q.status.state !== 'revoked' &&
+                !q.supersededById && (
+                  <Button variant="ghost" onClick={() => setRevoking(q)}>
+                    Revoke
+                  </Button>
+                )
+              }
+            />
+          ))}
+        </div>
+      )}
+      {revoking && <RevokeDialog qualification={revoking} onClose={() => setRevoking(null)} />}
+    </section>
+  );
+}
+
+function uploadsOf(coupons: CouponRecord[]): Array<{ upload: Upload; what: string; couponId: string }> {
+  return coupons.flatMap((c) => {
+    if (c.examination.method !== 'bend')
+      return c.examination.report ? [{ upload: c.examination.report, what: `Examination report, coupon of ${c.testedOn}`, couponId: c.id }] : [];
+    return c.examination.specimens.flatMap((s, i) =>
+      s.photo ? [{ upload: s.photo, what: `Photo of ${s.label ?? `specimen ${i + 1}`}, coupon of ${c.testedOn}`, couponId: c.id }] : [],
+    );
+  });
+}
+
+function WelderCoupons({ welder, isQa }: { welder: Welder; isQa: boolean }) {
+  const list = useQuery(couponQueries.list({ welderId: welder.id }));
+  const files = list.data ? uploadsOf(list.data.items) : [];
+  return (
+    <>
+      <section className="mt-6" aria-labelledby="coupons-heading">
+        <div className="mb-2 flex flex-wrap items-center justify-between gap-2">
+          <h2 id="coupons-heading" className="text-lg font-bold">
+            Coupons
+          </h2>
+          {isQa && (
+            <ButtonLink variant="primary" to={paths.couponNew.href({ welderId: welder.id })}>
+              <PlusIcon /> Record a coupon for {welder.stamp}
+            </ButtonLink>
+          )}
+        </div>
+        {list.isPending ? (
+          <LoadingState label="Loading coupons…" />
+        ) : list.isError ? (
+          <ErrorState error={list.error} onRetry={() => void list.refetch()} />
+        ) : (
+          <CouponsTable coupons={list.data.items} showWelder={false} empty="No qualification test recorded for this welder yet." />
+        )}
+      </section>
+      {files.length > 0 && (
+        <section className="mt-6" aria-labelledby="uploads-heading">
+          <h2 id="uploads-heading" className="mb-2 text-lg font-bold">
+            Attached files
+          </h2>
+          <ul className="divide-y divide-stone-100 rounded-lg border border-stone-200 bg-white text-sm">
+            {files.map(({ upload, what }) => (
+              <li key={upload.id} className="flex flex-wrap items-center gap-3 px-3 py-2">
+                <a className="font-semibold text-accent-700 underline" href={uploadContentUrl(upload.id)} download={upload.fileName}>
+                  {upload.fileName}
+                </a>
+                <span className="text-stone-700">{what}</span>
+                <span className="text-xs text-stone-500">{formatBytes(upload.size)}</span>
+              </li>
+            ))}
+          </ul>
+        </section>
+      )}
+    </>
   );
 }
 
@@ -194,13 +303,29 @@ export default function WelderRoute() {
           </dl>
         </Card>
         <Card className="p-4">
-          <h2 className="font-bold">Qualifications</h2>
-          <p className="mt-1 text-sm text-stone-600">
-            Qualification tests, the ranges they cover and continuity will be shown here once Beadroll keeps the qualification
-            records.
+          <h2 className="font-bold">Wallet card and verify link</h2>
+          <p className="mt-1 text-sm text-stone-700">
+            The wallet card lists the current and lapsing qualifications, with a QR code that opens the public Verify page.
           </p>
+          <a className={buttonClasses('secondary', 'mt-2')} href={walletCardUrl(w.id)} download>
+            Download the wallet card (PDF)
+          </a>
+          {isQa && (
+            <div className="mt-4 border-t border-stone-100 pt-3">
+              <h3 className="text-sm font-bold">Verify link</h3>
+              <VerifyLinkPanel welderId={w.id} welderName={w.name} />
+            </div>
+          )}
         </Card>
       </div>
+      <WelderQualifications welderId={w.id} isQa={isQa} />
+      <section className="mt-6" aria-labelledby="continuity-heading">
+        <h2 id="continuity-heading" className="mb-2 text-lg font-bold">
+          Continuity timeline
+        </h2>
+        <ContinuitySummary welderId={w.id} full />
+      </section>
+      <WelderCoupons welder={w} isQa={isQa} />
       {isQa && <WelderHistory welderId={w.id} />}
     </>
   );

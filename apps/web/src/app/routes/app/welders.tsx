@@ -71,7 +71,7 @@ function WeldersScreen({ canEdit }: { canEdit: boolean }) {
     if (first && isSortKey(first.id)) update({ sort: first.id, dir: first.desc ? 'desc' : 'asc' });
   };
 
-  const filtered = Boolean(filters.q || filters.shopId || filters.status !== 'active');
+  const filtered = Boolean(filters.q || filters.shopId || filters.state || filters.status !== 'active');
   const activeShops = (shops.data ?? []).filter((s) => s.active || s.id === filters.shopId);
   const page = list.data;
 
@@ -89,7 +89,7 @@ function WeldersScreen({ canEdit }: { canEdit: boolean }) {
         }
       />
 
-      <div role="search" className="mb-3 grid gap-3 sm:grid-cols-[minmax(0,2fr)_minmax(0,1fr)_minmax(0,1fr)] lg:max-w-4xl">
+      <div role="search" className="mb-3 grid gap-3 sm:grid-cols-[minmax(0,2fr)_minmax(0,1fr)_minmax(0,1fr)_minmax(0,1fr)] lg:max-w-5xl">
         <TextField
           label="Search welders"
           type="search"
@@ -108,6 +108,13 @@ function WeldersScreen({ canEdit }: { canEdit: boolean }) {
               {shop.code} · {shop.name}
             </option>
           ))}
+        </SelectField>
+        <SelectField label="Status" value={filters.state ?? ''} onChange={(e) => update({ state: (e.target.value || undefined) as WelderFilters['state'] })}>
+          <option value="">Any status</option>
+          <option value="current">Current</option>
+          <option value="lapsing">Lapsing</option>
+          <option value="lapsed">Lapsed</option>
+          <option value="revoked">Revoked</option>
         </SelectField>
         <SelectField
           label="Show"

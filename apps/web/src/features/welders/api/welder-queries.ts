@@ -15,6 +15,7 @@ export const welderQueries = {
           query: {
             q: filters.q,
             shopId: filters.shopId,
+            state: filters.state,
             status: filters.status,
             sort: filters.sort,
             dir: filters.dir,

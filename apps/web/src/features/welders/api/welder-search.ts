@@ -22,6 +22,7 @@ export function readWelderSearch(params: URLSearchParams): WelderFilters {
   return {
     q: q === '' ? undefined : q,
     shopId: pick('shopId'),
+    state: pick('state'),
     status: pick('status'),
     sort: pick('sort'),
     dir: pick('dir'),
@@ -33,7 +34,7 @@ export function readWelderSearch(params: URLSearchParams): WelderFilters {
 export function writeWelderSearch(filters: Partial<WelderFilters>): URLSearchParams {
   const params = new URLSearchParams();
   const merged = { ...defaults, ...filters };
-  for (const key of ['q', 'shopId', 'status', 'sort', 'dir', 'page', 'pageSize'] as const) {
+  for (const key of ['q', 'shopId', 'state', 'status', 'sort', 'dir', 'page', 'pageSize'] as const) {
     const value = merged[key];
     if (value === undefined || value === '' || value === defaults[key]) continue;
     params.set(key, String(value));

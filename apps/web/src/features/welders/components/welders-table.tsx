@@ -5,6 +5,7 @@ import { createColumnHelper, getCoreRowModel, useReactTable, type OnChangeFn, ty
 import { useMemo, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import { DataTable } from '@/components/ui/data-table';
+import { QualificationChips, soonestLapse } from '@/components/ui/qualification-chip';
 import { StatusChip } from '@/components/ui/status-chip';
 import { paths } from '@/config/paths';
 
@@ -59,6 +60,26 @@ export function WeldersTable({ welders, sorting, onSortingChange, onEdit, refres
         enableSorting: false,
         cell: (info) => <StatusChip status={info.getValue() ? 'welder.active' : 'welder.left'} />,
         meta: { className: 'w-24' },
+      }),
+      column.display({
+        id: 'qualifications',
+        header: 'Qualifications',
+        cell: (info) => <QualificationChips qualifications={info.row.original.qualifications ?? []} />,
+      }),
+      column.accessor((w) => soonestLapse(w.qualifications ?? [])?.lapsesOn ?? '', {
+        id: 'lapsesOn',
+        header: 'Soonest lapse',
+        cell: (info) => {
+          const soonest = soonestLapse(info.row.original.qualifications ?? []);
+          return soonest ? (
+            <span className="whitespace-nowrap tabular-nums">
+              {soonest.lapsesOn} <span className="text-xs text-stone-500">({soonest.process})</span>
+            </span>
+          ) : (
+            <span className="text-stone-400">none</span>
+          );
+        },
+        meta: { className: 'w-36' },
       }),
       ...(onEdit
         ? [

@@ -1,0 +1,236 @@
+// Continuity log (foreman, QA manager): the month of one shop as a grid of welders × processes, edited in
+// place and saved in one go. Shop and month live in the URL; unsaved changes are marked and guarded.
+import type { GridWelder } from '@beadroll/rules';
+import { useQuery } from '@tanstack/react-query';
+import { useCallback, useEffect, useState } from 'react';
+import { useBlocker, useSearchParams } from 'react-router-dom';
+import { Button } from '@/components/ui/button';
+import { ConfirmDialog } from '@/components/ui/dialog';
+import { FormError, SelectField, TextField } from '@/components/ui/field';
+import { AlertIcon, InfoIcon, PlusIcon } from '@/components/ui/icons';
+import { PageHeader } from '@/components/ui/page-header';
+import { RequireRole } from '@/components/ui/require-role';
+import { SafetyNotice } from '@/components/ui/safety-notice';
+import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
+import { continuityQueries } from '@/features/continuity/api/continuity-queries';
+import { useSaveGrid } from '@/features/continuity/api/save-grid';
+import { ContinuityGrid, type CellErrors } from '@/features/continuity/components/continuity-grid';
+import {
+  addWelder,
+  cellErrors,
+  changedCells,
+  draftFromGrid,
+  fillDown,
+  saveBody,
+  setCell,
+  type CellValue,
+  type FillScope,
+  type GridDraft,
+} from '@/features/continuity/model/grid-draft';
+import { shopQueries } from '@/features/shops/api/shop-queries';
+import { isApiError } from '@/lib/api-client';
+import { useUser } from '@/lib/auth';
+
+const thisMonth = () => new Date().toISOString().slice(0, 7);
+const isMonth = (m: string | null): m is string => Boolean(m && /^\d{4}-(0[1-9]|1[0-2])$/.test(m));
+
+export default function ContinuityRoute() {
+  return (
+    <RequireRole roles={['qa_manager', 'foreman']} title="Continuity log" message="The continuity log is kept by foremen and the QA manager.">
+      <ContinuityScreen />
+    </RequireRole>
+  );
+}
+
+function ContinuityScreen() {
+  const [params, setParams] = useSearchParams();
+  const shops = useQuery(shopQueries.list());
+  const activeShops = (shops.data ?? []).filter((s) => s.active);
+  const shopId = params.get('shopId') ?? activeShops[0]?.id ?? '';
+  const month = isMonth(params.get('month')) ? params.get('month')! : thisMonth();
+  const choose = (changes: Record<string, string>) =>
+    setParams({ shopId, month, ...changes }, { replace: true });
+
+  return (
+    <>
+      <PageHeader
+        title="Continuity log"
+        description="Tick each process a welder used this month and the job or traveler it was used on. One save records the whole month."
+      />
+      <div className="mb-4 flex flex-wrap items-end gap-3">
+        <SelectField label="Shop" wrapperClassName="w-64" value={shopId} onChange={(e) => choose({ shopId: e.target.value })}>
+          {activeShops.map((s) => (
+            <option key={s.id} value={s.id}>
+              {s.name} ({s.code})
+            </option>
+          ))}
+        </SelectField>
+        <TextField
+          label="Month"
+          type="month"
+          wrapperClassName="w-48"
+          value={month}
+          max={thisMonth()}
+          onChange={(e) => isMonth(e.target.value) && choose({ month: e.target.value })}
+        />
+      </div>
+      {shops.isPending ? (
+        <LoadingState label="Loading shops…" />
+      ) : shops.isError ? (
+        <ErrorState error={shops.error} onRetry={() => void shops.refetch()} />
+      ) : !shopId ? (
+        <EmptyState title="No shop to log for">You are not assigned to a shop yet. Ask the QA manager to assign you.</EmptyState>
+      ) : (
+        <MonthGrid key={`${shopId}:${month}`} shopId={shopId} month={month} />
+      )}
+      <SafetyNotice className="mt-4" />
+    </>
+  );
+}
+
+function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
+  const me = useUser();
+  const grid = useQuery(continuityQueries.grid(shopId, month));
+  const [draft, setDraft] = useState<GridDraft | null>(null);
+  const save = useSaveGrid();
+  const [errors, setErrors] = useState<CellErrors>({});
+  const [formError, setFormError] = useState<string>();
+  const [saved, setSaved] = useState(false);
+
+  useEffect(() => {
+    if (grid.data && !draft) setDraft(draftFromGrid(grid.data));
+  }, [grid.data, draft]);
+
+  const changes = draft ? changedCells(draft).length : 0;
+  const dirty = changes > 0;
+  const blocker = useBlocker(({ currentLocation, nextLocation }) => dirty && currentLocation.pathname !== nextLocation.pathname);
+  useEffect(() => {
+    if (!dirty) return;
+    const warn = (e: BeforeUnloadEvent) => e.preventDefault();
+    window.addEventListener('beforeunload', warn);
+    return () => window.removeEventListener('beforeunload', warn);
+  }, [dirty]);
+
+  const onCell = useCallback((welderId: string, process: string, patch: Partial<CellValue>) => {
+    setSaved(false);
+    setDraft((d) => (d ? setCell(d, welderId, process, patch) : d));
+  }, []);
+  const onFill = useCallback((process: string, scope: FillScope, jobReference?: string) => {
+    setSaved(false);
+    setDraft((d) => (d ? fillDown(d, process, scope, jobReference) : d));
+  }, []);
+
+  if (grid.isPending || (grid.data && !draft)) return <LoadingState label="Loading the month…" />;
+  if (grid.isError) return <ErrorState error={grid.error} onRetry={() => void grid.refetch()} />;
+  if (!draft) return null;
+
+  const readOnly = draft.closed && me.role !== 'qa_manager';
+  const submit = () => {
+    const body = saveBody(draft);
+    setErrors({});
+    setFormError(undefined);
+    save.mutate(body, {
+      onSuccess: (next) => {
+        setDraft(draftFromGrid(next));
+        setSaved(true);
+      },
+      onError: (error) => {
+        if (isApiError(error) && error.status === 400 && Object.keys(error.fields).length) {
+          const mapped = cellErrors(body, error.fields);
+          setErrors(mapped.byCell);
+          setFormError(mapped.other.length ? mapped.other.join(' · ') : 'Some cells need attention: see the messages in the grid.');
+        } else setFormError(isApiError(error) ? error.message : 'The month could not be saved.');
+      },
+    });
+  };
+
+  return (
+    <div className="space-y-3">
+      {draft.closed && (
+        <p className="flex items-start gap-2 rounded-md border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-amber-900" role="note">
+          <InfoIcon className="mt-0.5 size-4 shrink-0" />
+          {readOnly
+            ? 'This month is closed: only the QA manager can change it now. Ask them if something is missing.'
+            : 'This month is closed to foremen. As QA manager you can still correct it; every change is audited.'}
+        </p>
+      )}
+      <AddWelder shopId={shopId} draft={draft} disabled={readOnly} onAdd={(w) => setDraft((d) => (d ? addWelder(d, w) : d))} />
+      {draft.rows.length === 0 ? (
+        <EmptyState title="No welders in this shop">Add a welder who worked here by stamp or name.</EmptyState>
+      ) : (
+        <ContinuityGrid draft={draft} readOnly={readOnly} errors={errors} onCell={onCell} onFill={onFill} />
+      )}
+      <FormError message={formError} />
+      {!readOnly && (
+        <div className="sticky bottom-0 flex flex-wrap items-center gap-3 border-t border-stone-200 bg-white/95 py-3">
+          <Button variant="primary" onClick={submit} busy={save.isPending} disabled={!dirty}>
+            Save month
+          </Button>
+          <span role="status" className="text-sm">
+            {dirty ? (
+              <span className="inline-flex items-center gap-1 font-semibold text-amber-800">
+                <AlertIcon className="size-4" /> Unsaved changes ({changes} {changes === 1 ? 'cell' : 'cells'})
+              </span>
+            ) : saved ? (
+              <span className="font-semibold text-emerald-800">Month saved. Statuses are up to date.</span>
+            ) : (
+              <span className="text-stone-600">All changes saved</span>
+            )}
+          </span>
+        </div>
+      )}
+      <ConfirmDialog
+        open={blocker.state === 'blocked'}
+        title="Leave without saving?"
+        confirmLabel="Leave and discard"
+        onConfirm={() => blocker.proceed?.()}
+        onCancel={() => blocker.reset?.()}
+      >
+        This month has unsaved changes. They are lost if you leave now.
+      </ConfirmDialog>
+    </div>
+  );
+}
+
+function AddWelder({ shopId, draft, disabled, onAdd }: { shopId: string; draft: GridDraft; disabled: boolean; onAdd: (welder: GridWelder) => void }) {
+  const [text, setText] = useState('');
+  const [q, setQ] = useState('');
+  useEffect(() => {
+    const timer = setTimeout(() => setQ(text.trim()), 300);
+    return () => clearTimeout(timer);
+  }, [text]);
+  const found = useQuery({ ...continuityQueries.addable(shopId, q), enabled: q.length > 0 });
+  const options = (found.data ?? []).filter((w) => !draft.rows.some((r) => r.welder.id === w.id));
+  if (disabled) return null;
+  return (
+    <div className="max-w-xl">
+      <TextField label="Add a welder from another shop" placeholder="Stamp or name" value={text} onChange={(e) => setText(e.target.value)} />
+      {q && found.data && (
+        <ul className="mt-1 divide-y divide-stone-100 rounded-md border border-stone-200 bg-white" aria-label="Welders found">
+          {options.length === 0 ? (
+            <li className="px-3 py-2 text-sm text-stone-600">No welder to add matches “{q}”.</li>
+          ) : (
+            options.slice(0, 8).map((w) => (
+              <li key={w.id} className="flex items-center justify-between gap-2 px-3 py-1">
+                <span className="text-sm">
+                  <span className="font-mono font-semibold">{w.stamp}</span> {w.name}
+                  {w.homeShop ? <span className="text-stone-500"> · {w.homeShop.name}</span> : null}
+                </span>
+                <Button
+                  size="row"
+                  onClick={() => {
+                    onAdd(w);
+                    setText('');
+                  }}
+                  aria-label={`Add ${w.stamp}`}
+                >
+                  <PlusIcon /> Add
+                </Button>
+              </li>
+            ))
+          )}
+        </ul>
+      )}
+    </div>
+  );
+}

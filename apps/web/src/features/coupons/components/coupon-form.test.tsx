@@ -1,0 +1,203 @@
+// The coupon form's live computation in the browser: lengths read as typed, pipe OD and wall from NPS and
+// schedule, and the verdict panel following the discontinuities. Pure rules; no server is involved.
+import type { Welder } from '@beadroll/rules';
+import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
+import { render, screen, within } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { useState } from 'react';
+import { describe, expect, it, vi } from 'vitest';
+import { SizeField } from '@/components/ui/size-field';
+import { analyseDraft, emptyDraft, newDiscontinuity, newSpecimen, toRecordInput, type CouponDraft } from '../model/coupon-draft';
+import { CouponForm } from './coupon-form';
+import { PipeSizeFields } from './pipe-size-fields';
+import { VerdictPanel } from './verdict-panel';
+
+const welderId = '7b0c7f3e-2b7a-4d37-9b8e-2a4f1e0c9d11';
+const shopId = '0f3c9a52-6f1e-4b0a-8d55-3c1e2f9a7b10';
+const procedureId = '5a1d2c3b-4e5f-4a6b-8c7d-9e0f1a2b3c4d';
+
+/** A 3/8 in ASME IX plate in 3G with one side bend carrying the given sizes (all on its surface). */
+function draftWith(sizes: string[], over: Partial<CouponDraft> = {}): CouponDraft {
+  const specimen = newSpecimen('side');
+  specimen.discontinuities = sizes.map((sizeText) => ({ ...newDiscontinuity(), sizeText }));
+  return {
+    ...emptyDraft({ welderId, shopId, code: 'asme-ix', process: 'SMAW', position: '3G' }),
+    procedureId,
+    thicknessText: '3/8',
+    backing: 'with',
+    fNumberText: '4',
+    progression: 'uphill',
+    examinerName: 'Test Examiner',
+    visual: 'accept',
+    specimensChosen: true,
+    specimens: [specimen, newSpecimen('side')],
+    ...over,
+  };
+}
+
+describe('the live verdict', () => {
+  it('accepts 1/16 and 1/32 on one specimen and rejects when a 3/16 joins them (ASME IX QW-163: over 1/8 in rejects; published, read second-hand)', () => {
+    const ok = analyseDraft(draftWith(['1/16', '1/32']));
+    expect(ok.verdict).toBe('accept');
+    expect(ok.reasons).toEqual([]);
+
+    const bad = analyseDraft(draftWith(['1/16', '1/32', '3/16']));
+    expect(bad.verdict).toBe('reject');
+    expect(bad.reasons).toHaveLength(1);
+    expect(bad.reasons[0]).toMatchObject({ clause: 'ASME IX QW-163', where: 'Specimen 1 (side)' });
+    expect(bad.reasons[0]?.message).toContain('measured 3/16 in, allowed 1/8 in');
+
+    render(<VerdictPanel analysis={bad} />);
+    const panel = screen.getByRole('region', { name: 'Evaluation' });
+    expect(panel.getAttribute('aria-live')).toBe('polite');
+    expect(within(panel).getByText('Reject').closest('[data-tone]')?.getAttribute('data-tone')).toBe('bad');
+    expect(within(panel).getByText(/Specimen 1 \(side\):/)).toBeTruthy();
+    expect(within(panel).getByText('ASME IX QW-163')).toBeTruthy();
+    expect(within(panel).getByText(/responsible inspector govern/)).toBeTruthy();
+  });
+
+  it('passes a size exactly at the limit (1/8 in, ASME IX QW-163) and a corner crack without a fusion cause is only noted', () => {
+    const at = analyseDraft(draftWith(['1/8']));
+    expect(at.verdict).toBe('accept');
+    const corner = draftWith([]);
+    const first = corner.specimens[0];
+    if (first) first.discontinuities = [{ ...newDiscontinuity(), sizeText: '3/16', location: 'corner', type: 'crack' }];
+    const a = analyseDraft(corner);
+    expect(a.verdict).toBe('accept');
+    expect(a.notes.some((n) => /not considered/.test(n.message))).toBe(true);
+  });
+
+  it('a rejected visual examination rejects the coupon whatever the bends show', () => {
+    const a = analyseDraft(draftWith(['1/16'], { visual: 'reject' }));
+    expect(a.verdict).toBe('reject');
+    expect(a.reasons[0]?.message).toBe('Visual examination rejected');
+  });
+
+  it('AWS D1.1 caps the sum on one specimen at 3/8 in: three 1/8 in pass, a fourth of 1/16 in rejects (from memory: AWS D1.1 4.9.3.3)', () => {
+    const three = analyseDraft(draftWith(['1/8', '1/8', '1/8'], { code: 'aws-d1.1', criteria: 'aws-d1.1' }));
+    expect(three.verdict).toBe('accept');
+    const four = analyseDraft(draftWith(['1/8', '1/8', '1/8', '1/16'], { code: 'aws-d1.1', criteria: 'aws-d1.1' }));
+    expect(four.verdict).toBe('reject');
+    expect(four.reasons[0]?.message).toMatch(/add up to more than allowed/);
+  });
+
+  it('says what is missing instead of a verdict while a size does not read, and sends the live verdict as claimedResult', () => {
+    const unreadable = analyseDraft(draftWith(['1/16', '3/']));
+    expect(unreadable.verdict).toBeNull();
+    expect(unreadable.errors['examination.specimens.0.discontinuities.1.sizeText']).toMatch(/"3\/" is not a length/);
+
+    const d = draftWith(['1/16', '1/32', '3/16']);
+    const { input, errors } = toRecordInput(d, analyseDraft(d));
+    expect(errors).toEqual({});
+    expect(input?.claimedResult).toBe('reject');
+    const sent = input?.examination.method === 'bend' ? input.examination.specimens[0]?.discontinuities?.[2] : undefined;
+    expect(sent).toMatchObject({ sizeText: '3/16', size: { value: 0.1875, unit: 'in' }, location: 'surface' });
+  });
+
+  it('shows the qualified ranges preview with its clauses, and a rules error at the named field', () => {
+    const a = analyseDraft(draftWith(['1/16']));
+    expect(a.ranges?.positions.groove).toEqual(['F', 'V']);
+    expect(a.ranges?.limits.some((l) => l.clause === 'QW-461.9')).toBe(true);
+    const noProgression = analyseDraft(draftWith(['1/16'], { progression: '' }));
+    expect(noProgression.ranges).toBeNull();
+    expect(noProgression.errors['coupon.progression']).toMatch(/uphill or downhill/);
+  });
+});
+
+function SizeHarness() {
+  const [text, setText] = useState('');
+  return <SizeField label="Size" value={text} onChange={setText} />;
+}
+
+describe('the size field', () => {
+  it('reads fractions, mixed numbers and millimetres as they are typed, and names what does not read', async () => {
+    const user = userEvent.setup();
+    render(<SizeHarness />);
+    const input = screen.getByLabelText('Size');
+    await user.type(input, '3/16');
+    // 3/16 in = 4.7625 mm (1 in = 25.4 mm exactly, the international inch: NIST SP 811)
+    expect(screen.getByText('Reads as 3/16 in (4.76 mm)')).toBeTruthy();
+    await user.clear(input);
+    await user.type(input, '1-1/4 in');
+    expect(screen.getByText('Reads as 1-1/4 in (31.75 mm)')).toBeTruthy();
+    await user.clear(input);
+    await user.type(input, '4 mm');
+    expect(screen.getByText('Reads as 4 mm (0.157 in)')).toBeTruthy();
+    await user.clear(input);
+    await user.type(input, '3/0');
+    expect(screen.getByText(/zero denominator/)).toBeTruthy();
+    expect(input.getAttribute('aria-invalid')).toBe('true');
+    await user.clear(input);
+    await user.type(input, '4 cm');
+    expect(screen.getByText(/"cm" is not a unit/)).toBeTruthy();
+  });
+});
+
+function PipeHarness() {
+  const [v, setV] = useState({ nps: '', schedule: '' });
+  return <PipeSizeFields nps={v.nps} schedule={v.schedule} errors={{}} onChange={(c) => setV((x) => ({ ...x, ...c }))} />;
+}
+
+describe('pipe by NPS and schedule', () => {
+  it('fills OD 2.375 in and wall 0.218 in for NPS 2 Sch 80 (ASME B36.10M; the values TRADE.md §7 lists)', async () => {
+    const user = userEvent.setup();
+    render(<PipeHarness />);
+    await user.type(screen.getByLabelText('NPS'), '2');
+    await user.type(screen.getByLabelText('Schedule'), '80');
+    const out = screen.getByLabelText('Pipe dimensions');
+    expect(out.textContent).toContain('2-3/8 in (60.33 mm)');
+    expect(out.textContent).toContain('0.218 in (5.54 mm)');
+    await user.clear(screen.getByLabelText('Schedule'));
+    await user.type(screen.getByLabelText('Schedule'), '120');
+    expect(screen.getByText(/defines no schedule 120 for NPS 2/)).toBeTruthy();
+  });
+});
+
+const welder: Welder = {
+  id: welderId,
+  stamp: 'PV-07',
+  name: 'Test Welder',
+  homeShop: { id: shopId, code: 'PV', name: 'Test Bay' },
+  email: '',
+  active: true,
+  hasAccount: false,
+  version: 1,
+  createdAt: '2026-01-05T10:00:00.000Z',
+};
+
+describe('the coupon form', () => {
+  it('proposes the bend specimens from the thickness and turns the verdict to Reject as a third discontinuity is typed', async () => {
+    const user = userEvent.setup();
+    const client = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+    render(
+      <QueryClientProvider client={client}>
+        <CouponForm
+          welders={[welder]}
+          shops={[welder.homeShop]}
+          procedures={[]}
+          prefill={{ welderId, code: 'asme-ix', process: 'SMAW', position: '1G' }}
+          onSaved={vi.fn()}
+          onCancel={vi.fn()}
+        />
+      </QueryClientProvider>,
+    );
+    expect(screen.getByLabelText<HTMLSelectElement>('Shop').value).toBe(shopId);
+    await user.selectOptions(screen.getByLabelText('Backing'), 'without');
+    await user.type(screen.getByLabelText('Coupon thickness'), '1/4');
+    // Under 3/8 in deposited: one face and one root bend (ASME IX QW-452.1(a); published, read second-hand).
+    expect(screen.getByRole('group', { name: 'Specimen 1 (face)' })).toBeTruthy();
+    expect(screen.getByRole('group', { name: 'Specimen 2 (root)' })).toBeTruthy();
+    const panel = screen.getByRole('region', { name: 'Evaluation' });
+    expect(within(panel).getByText('Accept')).toBeTruthy();
+
+    await user.click(screen.getByRole('button', { name: 'Add a discontinuity to Specimen 2 (root)' }));
+    await user.type(screen.getByLabelText('Size of Specimen 2 (root), discontinuity 1'), '1/16{Enter}');
+    await user.keyboard('1/32');
+    expect(within(panel).getByText('Accept')).toBeTruthy();
+    await user.keyboard('{Enter}3/16');
+    expect(within(panel).getByText('Reject')).toBeTruthy();
+    expect(within(panel).getByText(/Specimen 2 \(root\):/)).toBeTruthy();
+    await user.click(screen.getByRole('button', { name: 'Remove Specimen 2 (root), discontinuity 3' }));
+    expect(within(panel).getByText('Accept')).toBeTruthy();
+  });
+});

@@ -1,0 +1,117 @@
+// Request and response contracts of the continuity log (issue 5): the monthly grid of a shop, its save,
+// the welders that can be added to it, the review queue of use logged while lapsed and a welder's
+// continuity timeline. The API parses requests with these; the web parses responses and builds bodies.
+import { z } from 'zod';
+import { isIsoDate } from '../continuity/calendar.js';
+import { processes } from './coupon.js';
+
+const uuid = z.string().uuid('Not a valid id');
+export const monthText = z
+  .string()
+  .regex(/^\d{4}-(0[1-9]|1[0-2])$/, 'Write the month as YYYY-MM')
+  .refine((m) => m >= '1900-01', 'Write the month as YYYY-MM');
+const isoDate = z.string().refine(isIsoDate, 'Write the date as YYYY-MM-DD');
+const processSchema = z.enum(processes, { error: `Choose one of ${processes.join(', ')}` });
+
+export const gridQuery = z.object({ shopId: uuid, month: monthText });
+
+export const gridSaveInput = z.object({
+  shopId: uuid,
+  month: monthText,
+  cells: z
+    .array(
+      z.object({
+        welderId: uuid,
+        process: processSchema,
+        usedOn: isoDate,
+        jobReference: z.string().trim().min(1, 'Enter the job or traveler number').max(80, 'At most 80 characters'),
+        note: z.string().trim().max(500, 'At most 500 characters').optional().default(''),
+      }),
+    )
+    .max(2000, 'At most 2000 cells in one save')
+    .optional()
+    .default([]),
+  remove: z
+    .array(z.object({ welderId: uuid, process: processSchema }))
+    .max(2000, 'At most 2000 cells in one save')
+    .optional()
+    .default([]),
+});
+export type GridSaveInput = z.output<typeof gridSaveInput>;
+export type GridSaveBody = z.input<typeof gridSaveInput>;
+
+export const gridWeldersQuery = z.object({ shopId: uuid, q: z.string().trim().max(100).optional() });
+
+export const reviewInput = z.object({ note: z.string().trim().max(500, 'At most 500 characters').optional().default('') });
+
+// ---- responses --------------------------------------------------------------------------------------
+
+const shopRef = z.object({ id: z.string(), name: z.string(), code: z.string() });
+
+export const gridCellSchema = z.object({
+  entryId: z.string(),
+  usedOn: z.string(),
+  jobReference: z.string(),
+  note: z.string(),
+  /** Use logged on a date when the welder's qualification for the process had already lapsed. */
+  flaggedLapsed: z.boolean(),
+  version: z.number().int(),
+});
+export type GridCell = z.infer<typeof gridCellSchema>;
+
+export const gridRowSchema = z.object({
+  welder: z.object({ id: z.string(), stamp: z.string(), name: z.string(), homeShopId: z.string() }),
+  home: z.boolean(),
+  qualifiedProcesses: z.array(z.string()),
+  cells: z.record(z.string(), gridCellSchema.nullable()),
+});
+export type GridRow = z.infer<typeof gridRowSchema>;
+
+export const gridSchema = z.object({
+  shop: shopRef,
+  month: z.string(),
+  /** Older than the company's closed-month age: only the QA manager may change it. */
+  closed: z.boolean(),
+  processes: z.array(z.string()),
+  rows: z.array(gridRowSchema),
+});
+export type Grid = z.infer<typeof gridSchema>;
+
+export const gridWelderSchema = z.object({
+  id: z.string(),
+  stamp: z.string(),
+  name: z.string(),
+  homeShop: shopRef.nullable(),
+  qualifiedProcesses: z.array(z.string()),
+});
+export type GridWelder = z.infer<typeof gridWelderSchema>;
+export const gridWelderListSchema = z.object({ items: z.array(gridWelderSchema) });
+
+export const reviewEntrySchema = z.object({
+  id: z.string(),
+  welder: z.object({ id: z.string(), stamp: z.string(), name: z.string() }),
+  shop: shopRef,
+  process: z.string(),
+  usedOn: z.string(),
+  jobReference: z.string(),
+  note: z.string(),
+  reviewStatus: z.enum(['pending', 'reviewed']).nullable(),
+  reviewNote: z.string().nullable(),
+  loggedBy: z.string().nullable(),
+});
+export type ReviewEntry = z.infer<typeof reviewEntrySchema>;
+export const reviewQueueSchema = z.object({ items: z.array(reviewEntrySchema) });
+
+export const timelineEventKinds = ['test', 'use', 'lapse', 'renewal', 'flag', 'revocation'] as const;
+export const timelineSchema = z.object({
+  processes: z.array(
+    z.object({
+      process: z.string(),
+      code: z.string(),
+      events: z.array(z.object({ date: z.string(), kind: z.enum(timelineEventKinds), detail: z.string() })),
+      state: z.string(),
+      lapsesOn: z.string().nullable(),
+    }),
+  ),
+});
+export type Timeline = z.infer<typeof timelineSchema>;
