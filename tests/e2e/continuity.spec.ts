@@ -40,8 +40,12 @@ async function getJson<T>(page: Page, url: string): Promise<T> {
 async function lapsingWelder(foreman: Page, shopIds: string[]): Promise<{ welder: WelderItem; process: string }> {
   const list = await getJson<{ items: WelderItem[] }>(foreman, '/api/welders?state=lapsing&pageSize=100');
   for (const w of list.items) {
-    const q = w.qualifications?.find((x) => x.state === 'lapsing');
-    if (q && shopIds.includes(w.homeShop.id)) return { welder: w, process: q.process };
+    // Logged use renews every code of one process: take a welder whose lapsing ones share a process, so
+    // that after the save nothing of theirs is lapsing any more.
+    const lapsing = w.qualifications?.filter((x) => x.state === 'lapsing') ?? [];
+    const process = lapsing[0]?.process;
+    if (process && lapsing.every((x) => x.process === process) && shopIds.includes(w.homeShop.id))
+      return { welder: w, process };
   }
   const qa = await newSession(browser);
   try {

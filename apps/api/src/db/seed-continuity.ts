@@ -3,8 +3,8 @@
 // the seed runs so the demo stays alive on any date — most pairs current, three lapsing within 30 days
 // (their use stopped a little under six months ago), two lapsed (no use since a test more than six months
 // ago), one qualification revoked for cause, and one welder renewed by a passing coupon after a lapse.
-// The history reaches back as far as the demo tests do (the records seed tests welders within the last
-// seven months or so); use before a welder's test would not count, so none is invented.
+// The history reaches back as far as the demo tests do (the records seed spreads them over the last two
+// years); use before a welder's test would not count, so none is invented.
 // Logged use goes through the continuity repository (one upsert per shop and month, audits in one
 // statement), the revocation and the renewal coupon through the API's services; every state is
 // refreshed once at the end. Idempotent: each step is skipped once its rows exist.

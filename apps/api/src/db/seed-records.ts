@@ -428,8 +428,9 @@ export async function seedRecords(
     if (!options) continue;
     // One to three tests each (a reject brings its retest, so at most four coupons).
     const n = w.stamp === 'PV-07' ? 3 : 1 + ((index * 7) % 3);
-    // Tests spread over the last months: most current, some lapsing soon, a few lapsed.
-    const base = w.stamp === 'PV-07' ? 40 : 20 + ((index * 37) % 190);
+    // Tests spread over the last two years, so that the continuity seed can log up to two years of use
+    // after them: most current, some lapsing soon, a few lapsed.
+    const base = w.stamp === 'PV-07' ? 40 : 60 + ((index * 37) % 660);
     for (let k = 0; k < n; k++) {
       const plan = options[(index + k) % options.length]!;
       const lab = `HPL-${w.stamp}-${k + 1}`;
