@@ -10,7 +10,6 @@ import { FormError, SelectField, TextField } from '@/components/ui/field';
 import { AlertIcon, InfoIcon, PlusIcon } from '@/components/ui/icons';
 import { PageHeader } from '@/components/ui/page-header';
 import { RequireRole } from '@/components/ui/require-role';
-import { SafetyNotice } from '@/components/ui/safety-notice';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { continuityQueries } from '@/features/continuity/api/continuity-queries';
 import { useSaveGrid } from '@/features/continuity/api/save-grid';
@@ -83,7 +82,6 @@ function ContinuityScreen() {
       ) : (
         <MonthGrid key={`${shopId}:${month}`} shopId={shopId} month={month} />
       )}
-      <SafetyNotice className="mt-4" />
     </>
   );
 }

@@ -7,7 +7,6 @@ import { SelectField } from '@/components/ui/field';
 import { PlusIcon } from '@/components/ui/icons';
 import { PageHeader } from '@/components/ui/page-header';
 import { RequireRole } from '@/components/ui/require-role';
-import { SafetyNotice } from '@/components/ui/safety-notice';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
 import { couponQueries, type CouponFilters } from '@/features/coupons/api/coupon-queries';
@@ -59,7 +58,6 @@ function CouponsScreen() {
       ) : (
         <CouponsTable coupons={list.data.items} empty="No coupon has this result." />
       )}
-      <SafetyNotice className="mt-3" />
     </>
   );
 }

@@ -8,7 +8,6 @@ import { ConfirmDialog } from '@/components/ui/dialog';
 import { SelectField, TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page-header';
 import { RequireRole } from '@/components/ui/require-role';
-import { SafetyNotice } from '@/components/ui/safety-notice';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
 import { lapseWatchQueries, useRunLapseWatch } from '@/features/lapse-watch/api/lapse-watch-queries';
@@ -205,7 +204,6 @@ function LapseWatchScreen() {
           </Card>
         )}
       </section>
-      <SafetyNotice className="mt-5" />
 
       <ConfirmDialog
         open={confirming}

@@ -9,7 +9,6 @@ import { Dialog, DialogActions } from '@/components/ui/dialog';
 import { FormError, TextField } from '@/components/ui/field';
 import { AlertIcon } from '@/components/ui/icons';
 import { Card, PageHeader } from '@/components/ui/page-header';
-import { SafetyNotice } from '@/components/ui/safety-notice';
 import { StatusChip } from '@/components/ui/status-chip';
 import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
@@ -163,7 +162,6 @@ export default function OverviewRoute() {
           {isQa && <ReviewList />}
         </div>
       )}
-      <SafetyNotice className="mt-5" />
     </>
   );
 }
