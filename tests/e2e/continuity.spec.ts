@@ -155,7 +155,14 @@ describe('the continuity log', () => {
     expect(await chip.first().textContent()).toBe(`${target.process} current`);
 
     // The Status filter finds lapsing welders; this one is no longer among them.
-    await page.getByLabel('Status', { exact: true }).selectOption('lapsing');
+    // Wait for the filtered answer itself: until it arrives the table keeps showing the previous rows.
+    await Promise.all([
+      page.waitForResponse((r) => {
+        const u = new URL(r.url());
+        return u.pathname === '/api/welders' && u.searchParams.get('state') === 'lapsing';
+      }),
+      page.getByLabel('Status', { exact: true }).selectOption('lapsing'),
+    ]);
     await page.waitForURL((u) => u.searchParams.get('state') === 'lapsing');
     await tableSettled(page);
     expect(await page.getByRole('row', { name: new RegExp(target.welder.stamp) }).count()).toBe(0);
