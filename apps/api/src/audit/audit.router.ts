@@ -2,7 +2,7 @@
 import { Router, type RequestHandler } from 'express';
 import type { AppDeps } from '../lib/context.js';
 import { actorOf, requireRole } from '../lib/auth.js';
-import { auditListQuery } from './audit.schema.js';
+import { auditListQuery } from '@beadroll/rules';
 import * as audit from './audit.service.js';
 
 export function auditRouter(deps: AppDeps, requireAuth: RequestHandler): Router {

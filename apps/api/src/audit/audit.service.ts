@@ -1,9 +1,8 @@
 // The audit trail of a company, for the QA manager and for auditors.
-import type { AuditEvent } from '@beadroll/rules';
+import type { AuditEvent, AuditListQuery } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import type { Actor } from '../lib/scope.js';
 import * as repo from './audit.repository.js';
-import type { AuditListQuery } from './audit.schema.js';
 
 export const AUDIT_PAGE_SIZE = 50;
 

@@ -1,12 +1,11 @@
 // Writes one audit event inside the caller's transaction, so a change and its record commit together.
 import type { EntityManager } from 'typeorm';
+import type { AuditEntityType } from '@beadroll/rules';
 import type { Actor } from './scope.js';
 
 export interface AuditInput {
   action: string;
-  entityType:
-    'shop' | 'person' | 'welder' | 'procedure' | 'coupon' | 'qualification' | 'upload' | 'verify-token'
-    | 'continuity-entry' | 'company-settings';
+  entityType: AuditEntityType;
   entityId: string;
   before: Record<string, unknown> | null;
   after: Record<string, unknown> | null;

@@ -209,6 +209,28 @@ export type WelderPage = z.infer<typeof welderPageSchema>;
 
 // ---- audit ------------------------------------------------------------------------------------------
 
+/** Every kind of record the audit trail writes about. */
+export const auditEntityTypes = [
+  'shop',
+  'person',
+  'welder',
+  'procedure',
+  'coupon',
+  'qualification',
+  'upload',
+  'verify-token',
+  'continuity-entry',
+  'company-settings',
+] as const;
+export type AuditEntityType = (typeof auditEntityTypes)[number];
+
+export const auditListQuery = z.object({
+  entityType: z.enum(auditEntityTypes).optional(),
+  entityId: uuid.optional(),
+  page: z.coerce.number().int().min(1).optional().default(1),
+});
+export type AuditListQuery = z.output<typeof auditListQuery>;
+
 export const auditEventSchema = z.object({
   id: z.string(),
   at: z.string(),

@@ -1,4 +1,4 @@
-// Audit trail: every create and change on shops, people and welders, newest first. The filter and the
+// Audit trail: every create and change on the company's records, newest first. The filter and the
 // page sit in the URL, so a view handed to an auditor opens the same way.
 import { useQuery } from '@tanstack/react-query';
 import { useSearchParams } from 'react-router-dom';
@@ -10,12 +10,24 @@ import { EmptyState, ErrorState, LoadingState } from '@/components/ui/states';
 import { auditQueries } from '@/features/audit/api/audit-queries';
 import { shopQueries } from '@/features/shops/api/shop-queries';
 import { AuditTable } from '@/features/audit/components/audit-table';
+import { auditEntityTypes, type AuditEntityType } from '@beadroll/rules';
 
+// A label for every kind the API audits: a new kind in the shared list does not type-check until named here.
+const recordLabels: Record<AuditEntityType, string> = {
+  shop: 'Shops',
+  person: 'People',
+  welder: 'Welders',
+  procedure: 'Procedures (WPS)',
+  coupon: 'Coupons',
+  qualification: 'Qualifications',
+  upload: 'Attached files',
+  'verify-token': 'Verify links',
+  'continuity-entry': 'Continuity log entries',
+  'company-settings': 'Settings',
+};
 const recordTypes = [
   { value: '', label: 'All records' },
-  { value: 'shop', label: 'Shops' },
-  { value: 'person', label: 'People' },
-  { value: 'welder', label: 'Welders' },
+  ...auditEntityTypes.map((value) => ({ value, label: recordLabels[value] })),
 ];
 
 export default function AuditRoute() {
