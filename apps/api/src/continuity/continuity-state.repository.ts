@@ -153,28 +153,68 @@ const soonestLapseSql = (source: string) => `
    WHERE w.id = x.welder_id AND w.soonest_lapses_on IS DISTINCT FROM x.m`;
 
 /**
- * Recomputes the continuity state of the given pairs in the caller's transaction (four statements
- * whatever their number: lock, upsert/delete, re-flag, the welders' soonest lapse) and re-flags the logged use of those pairs that
- * fell on a lapsed date. Takes a transaction-scoped advisory lock per welder and process, in a fixed
- * order, so two writers of the same pair refresh one after the other and the later one sees both changes.
+ * A pair whose lapse date moved in a refresh: `before` is the stored lapses_on before the refresh (null: the
+ * pair is new), `after` the one stored now (null: the pair is gone). Computed in the refresh's own
+ * statement, so a caller can write its lapse events in the same transaction.
  */
-export async function refreshContinuityPairs(manager: EntityManager, keys: PairKey[], code?: string): Promise<void> {
+export interface LapseMove {
+  organizationId: string;
+  welderId: string;
+  process: string;
+  code: string;
+  /** Set when the move is known to concern one qualification only (none today: moves are per pair). */
+  qualificationId?: string;
+  before: string | null;
+  after: string | null;
+}
+
+/**
+ * Recomputes the continuity state of the given pairs in the caller's transaction (four statements
+ * whatever their number: lock, upsert/delete, re-flag, the welders' soonest lapse) and re-flags the logged
+ * use of those pairs that fell on a lapsed date. Takes a transaction-scoped advisory lock per welder, in a
+ * fixed order, so two writers of one welder refresh one after the other and the later one sees both
+ * changes (the welder's soonest lapse spans all its processes). Returns the pairs whose lapsesOn moved.
+ */
+export async function refreshContinuityPairs(
+  manager: EntityManager,
+  keys: PairKey[],
+  code?: string,
+): Promise<LapseMove[]> {
   const unique = [...new Map(keys.map((k) => [`${k.welderId}:${k.process}`, k])).values()].sort((a, b) =>
     a.welderId === b.welderId ? a.process.localeCompare(b.process) : a.welderId.localeCompare(b.welderId),
   );
-  if (unique.length === 0) return;
+  if (unique.length === 0) return [];
   const welders = unique.map((k) => k.welderId);
   const processes = unique.map((k) => k.process);
   await lockPairs(manager, unique);
   const keySet = `(SELECT * FROM unnest($1::uuid[], $2::text[]) AS k(welder_id, process))`;
   const codeFilter = (a: string) => (code ? `AND ${a}.code = $3` : '');
   const params: unknown[] = code ? [welders, processes, code] : [welders, processes];
-  await manager.query(
+  // Every CTE reads the same snapshot, so `old` holds the states as they were before this statement.
+  const moves = await manager.query<LapseMove[]>(
     `WITH ${walkCtes({ pairFilter: `AND (q.welder_id, q.process) IN ${keySet} ${codeFilter('q')}` })},
-     upserted AS (${upsertStatesSql} RETURNING 1)
-     DELETE FROM continuity_states s
-      WHERE (s.welder_id, s.process) IN ${keySet} ${codeFilter('s')}
-        AND NOT EXISTS (SELECT 1 FROM computed c WHERE (c.welder_id, c.process, c.code) = (s.welder_id, s.process, s.code))`,
+     old AS (
+       SELECT s.organization_id, s.welder_id, s.process, s.code, s.lapses_on FROM continuity_states s
+        WHERE (s.welder_id, s.process) IN ${keySet} ${codeFilter('s')}
+     ),
+     upserted AS (${upsertStatesSql} RETURNING s.organization_id, s.welder_id, s.process, s.code, s.lapses_on),
+     deleted AS (
+       DELETE FROM continuity_states s
+        WHERE (s.welder_id, s.process) IN ${keySet} ${codeFilter('s')}
+          AND NOT EXISTS (SELECT 1 FROM computed c WHERE (c.welder_id, c.process, c.code) = (s.welder_id, s.process, s.code))
+       RETURNING s.welder_id, s.process, s.code
+     )
+     SELECT coalesce(u.organization_id, o.organization_id) AS "organizationId",
+            coalesce(u.welder_id, o.welder_id) AS "welderId", coalesce(u.process, o.process) AS process,
+            coalesce(u.code, o.code) AS code,
+            to_char(o.lapses_on, 'YYYY-MM-DD') AS before,
+            CASE WHEN d.welder_id IS NULL THEN to_char(coalesce(u.lapses_on, o.lapses_on), 'YYYY-MM-DD') END AS after
+       FROM upserted u
+       FULL JOIN old o USING (welder_id, process, code)
+       LEFT JOIN deleted d ON (d.welder_id, d.process, d.code) = (o.welder_id, o.process, o.code)
+      WHERE (u.welder_id IS NOT NULL OR d.welder_id IS NOT NULL)
+        AND (CASE WHEN d.welder_id IS NULL THEN u.lapses_on END) IS DISTINCT FROM o.lapses_on
+      ORDER BY 2, 3, 4`,
     params,
   );
   // Use logged on a date the pair had already lapsed is not evidence: flag it for the QA manager's review.
@@ -184,22 +224,30 @@ export async function refreshContinuityPairs(manager: EntityManager, keys: PairK
     processes,
   ]);
   await manager.query(soonestLapseSql(`(SELECT DISTINCT unnest($1::uuid[]) AS welder_id) u`), [welders]);
+  return moves;
 }
 
-/** Takes the per-(welder, process) advisory locks in a fixed order (callers lock before they write). */
+/**
+ * Takes the per-welder continuity advisory locks in a fixed order (callers lock before they write). Per
+ * welder, not per (welder, process): the welder's soonest lapse is computed from all its processes, so two
+ * refreshes of one welder must not run side by side; a transaction that refreshes twice (a coupon moved
+ * to another process) holds the one lock throughout and cannot deadlock against itself.
+ */
 export async function lockPairs(manager: EntityManager, keys: PairKey[]): Promise<void> {
-  const sorted = [...keys].sort((a, b) =>
-    a.welderId === b.welderId ? a.process.localeCompare(b.process) : a.welderId.localeCompare(b.welderId),
-  );
+  const sorted = [...new Set(keys.map((k) => k.welderId))].sort();
   await manager.query(
-    `SELECT pg_advisory_xact_lock(hashtextextended('continuity:' || w || ':' || p, 0))
-       FROM unnest($1::uuid[], $2::text[]) WITH ORDINALITY AS k(w, p, n) ORDER BY n`,
-    [sorted.map((k) => k.welderId), sorted.map((k) => k.process)],
+    `SELECT pg_advisory_xact_lock(hashtextextended('continuity:' || w, 0))
+       FROM unnest($1::uuid[]) WITH ORDINALITY AS k(w, n) ORDER BY n`,
+    [sorted],
   );
 }
 
 /** Every code the welder holds for the process, in the caller's transaction. */
-export function refreshContinuityStates(manager: EntityManager, welderId: string, process: string): Promise<void> {
+export function refreshContinuityStates(
+  manager: EntityManager,
+  welderId: string,
+  process: string,
+): Promise<LapseMove[]> {
   return refreshContinuityPairs(manager, [{ welderId, process }]);
 }
 
@@ -209,7 +257,7 @@ export function refreshContinuityState(
   welderId: string,
   process: string,
   code: string,
-): Promise<void> {
+): Promise<LapseMove[]> {
   return refreshContinuityPairs(manager, [{ welderId, process }], code);
 }
 
