@@ -26,6 +26,8 @@ import { continuityRouter, welderTimelineRouter } from './continuity/continuity.
 import { settingsRouter } from './settings/settings.router.js';
 import { lapseWatchRouter } from './lapse-watch/lapse-watch.router.js';
 import { overviewRouter } from './overview/overview.router.js';
+import { refuseBearer, withApiTokens } from './api-tokens/bearer.js';
+import { apiTokensRouter } from './api-tokens/api-tokens.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -71,7 +73,9 @@ export function createApp(opts: CreateAppOptions): Express {
   );
   app.use(cookieParser());
 
-  const auth = createAuthenticator(config, (userId) => loadActor(dataSource.manager, userId));
+  const session = createAuthenticator(config, (userId) => loadActor(dataSource.manager, userId));
+  // API tokens (Authorization: Bearer) are checked in front of the session cookie on every route.
+  const auth = { ...session, requireAuth: withApiTokens(deps, session.requireAuth) };
 
   const api = Router();
   api.use((_req, res, next) => {
@@ -83,6 +87,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use(healthRouter(deps));
   api.use(authRouter(deps, auth.requireAuth));
   api.use('/shops', shopsRouter(deps, auth.requireAuth));
+  api.use(['/people', '/api-tokens'], refuseBearer);
   api.use('/people', peopleRouter(deps, auth.requireAuth));
   api.use('/welders', welderCardRouter(deps, auth.requireAuth));
   api.use('/welders', verifyTokenRouter(deps, auth.requireAuth));
@@ -98,6 +103,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/settings', settingsRouter(deps, auth.requireAuth));
   api.use('/lapse-watch', lapseWatchRouter(deps, auth.requireAuth));
   api.use('/overview', overviewRouter(deps, auth.requireAuth));
+  api.use('/api-tokens', apiTokensRouter(deps, auth.requireAuth));
   if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps));
   api.use(apiNotFound);
   app.use('/api', api);

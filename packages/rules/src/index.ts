@@ -9,6 +9,7 @@ export * from './schemas/continuity.js';
 export * from './schemas/records.js';
 export * from './schemas/continuity-admin.js';
 export * from './schemas/continuity-log.js';
+export * from './schemas/api-tokens.js';
 export { RulesInputError } from './validation/rules-input-error.js';
 export { fieldsOf } from './validation/parse-input.js';
 export { RULES_VERSION } from './version.js';

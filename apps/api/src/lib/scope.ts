@@ -13,6 +13,8 @@ export interface Actor {
   welderId: string | null;
   /** Foreman: assigned shops. Welder: the home shop. QA manager: empty (sees every shop of the company). */
   shopIds: string[];
+  /** Set when the caller is another system presenting an API token (issue 13); absent for a person. */
+  apiToken?: { id: string; access: 'read' | 'read-write' };
 }
 
 /** Shops the actor may read. `alias` is the shops alias in qb. */

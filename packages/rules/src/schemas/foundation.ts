@@ -221,6 +221,8 @@ export const auditEntityTypes = [
   'verify-token',
   'continuity-entry',
   'company-settings',
+  'api-token',
+  'import',
 ] as const;
 export type AuditEntityType = (typeof auditEntityTypes)[number];
 

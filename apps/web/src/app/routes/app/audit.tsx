@@ -24,6 +24,8 @@ const recordLabels: Record<AuditEntityType, string> = {
   'verify-token': 'Verify links',
   'continuity-entry': 'Continuity log entries',
   'company-settings': 'Settings',
+  'api-token': 'API tokens',
+  import: 'Imports',
 };
 const recordTypes = [
   { value: '', label: 'All records' },
