@@ -1,7 +1,7 @@
 // Input contract of a performance qualification test coupon, as qualifiedRanges and the coupon form use it.
 import { z } from 'zod';
 import { testPositions } from '../ranges/positions.js';
-import { codeIdSchema, positiveLengthSchema } from './common.js';
+import { codeIdSchema, lengthBounds, plausibleLengthSchema, positiveLengthSchema } from './common.js';
 
 export const processes = ['SMAW', 'GTAW', 'GMAW', 'FCAW', 'SAW', 'PAW', 'OFW'] as const;
 export type Process = (typeof processes)[number];
@@ -31,11 +31,11 @@ export const couponSchema = z.object({
     .transform((p) => p.trim().toUpperCase().replace(/\s+/g, '').replace('&', '+'))
     .pipe(z.enum(testPositions, { error: `Position must be one of ${testPositions.join(', ')}` })),
   /** Coupon thickness (pipe: wall). */
-  thickness: positiveLengthSchema,
+  thickness: plausibleLengthSchema(lengthBounds.thickness),
   /** Weld metal deposited by this welder with this process; the coupon thickness if absent. */
-  depositedThickness: positiveLengthSchema.optional(),
+  depositedThickness: plausibleLengthSchema(lengthBounds.depositedThickness).optional(),
   layers: z.number().int('Whole number of layers').min(1).max(200).optional(),
-  outsideDiameter: positiveLengthSchema.optional(),
+  outsideDiameter: plausibleLengthSchema(lengthBounds.outsideDiameter).optional(),
   backing: z.boolean({ error: 'Say whether the coupon was welded with backing' }),
   fNumber: z.number().int('F-No. is a whole number').min(1).max(99).optional(),
   progression: z.enum(progressions).optional(),

@@ -6,6 +6,8 @@ import {
   codeIdSchema,
   criteriaIdSchema,
   isoDateSchema,
+  lengthBounds,
+  plausibleLengthSchema,
   positiveLengthSchema,
   lengthSchema,
 } from './common.js';
@@ -98,7 +100,7 @@ export const recordedDiscontinuitySchema = z.object({
   /** The size exactly as typed ('3/16', '1-1/4 in', '4 mm'), kept for the record. */
   sizeText: required(30),
   /** The parsed size (parseLength of sizeText); the server re-parses and refuses a mismatch. */
-  size: lengthSchema,
+  size: plausibleLengthSchema(lengthBounds.discontinuity),
   location: z.enum(['surface', 'corner'], { error: 'Location must be surface or corner' }),
   type: z.enum(discontinuityTypes).optional(),
   fusionRelated: z.boolean().optional().default(false),

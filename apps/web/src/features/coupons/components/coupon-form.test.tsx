@@ -201,3 +201,41 @@ describe('the coupon form', () => {
     expect(within(panel).getByText('Accept')).toBeTruthy();
   });
 });
+
+function renderForm(prefill: Parameters<typeof CouponForm>[0]['prefill'], procedures: Parameters<typeof CouponForm>[0]['procedures'] = []) {
+  const client = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  return render(
+    <QueryClientProvider client={client}>
+      <CouponForm welders={[welder]} shops={[welder.homeShop]} procedures={procedures} prefill={prefill} onSaved={vi.fn()} onCancel={vi.fn()} />
+    </QueryClientProvider>,
+  );
+}
+
+describe('implausible sizes (common practice (no source): typing slips, refused as the API refuses them)', () => {
+  it('refuses a thickness of 99999999 or 0 and a 400 mm deposit at the named field, and lists them on save', async () => {
+    const user = userEvent.setup();
+    renderForm({ welderId, code: 'asme-ix', process: 'SMAW', position: '1G' });
+    const thickness = screen.getByLabelText('Coupon thickness');
+    await user.type(thickness, '99999999');
+    expect(screen.getByText('The coupon thickness of 99999999 in is not a plausible size: enter 0.01 in to 12 in')).toBeTruthy();
+    expect(thickness.getAttribute('aria-invalid')).toBe('true');
+    await user.clear(thickness);
+    await user.type(thickness, '0');
+    expect(screen.getByText(/The coupon thickness of 0 in is not a plausible size/)).toBeTruthy();
+    await user.clear(thickness);
+    await user.type(thickness, '3/8');
+    expect(thickness.getAttribute('aria-invalid')).not.toBe('true');
+
+    await user.type(screen.getByLabelText('Deposited weld metal thickness'), '400 mm');
+    expect(screen.getByText(/deposited weld metal thickness of 400 mm is not a plausible size: enter 0.25 mm to 300 mm/)).toBeTruthy();
+    await user.click(screen.getByRole('button', { name: 'Save coupon' }));
+    const summary = screen.getByText('Deposited thickness:').closest('li');
+    expect(summary?.textContent).toMatch(/not a plausible size/);
+  });
+
+  it('reads the same bounds in the model the form sends: a zero-size discontinuity has no verdict and is named', () => {
+    const a = analyseDraft(draftWith(['0']));
+    expect(a.verdict).toBeNull();
+    expect(a.errors['examination.specimens.0.discontinuities.0.sizeText']).toMatch(/A discontinuity of 0 in is not a plausible size/);
+  });
+});

@@ -4,6 +4,7 @@
 import {
   criteriaIds,
   criteriaSets,
+  lengthBounds,
   processes,
   processNames,
   testPositionNames,
@@ -284,13 +285,13 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               </div>
             ) : (
               <>
-                <SizeField label={draft.form === 'pipe' ? 'Wall thickness' : 'Coupon thickness'} positive value={draft.thicknessText} error={errorFor(errors, 'coupon.thickness')} onChange={(t) => change({ thicknessText: t }, 'coupon.thickness')} placeholder="3/8, 10 mm" />
+                <SizeField label={draft.form === 'pipe' ? 'Wall thickness' : 'Coupon thickness'} positive bounds={lengthBounds.thickness} value={draft.thicknessText} error={errorFor(errors, 'coupon.thickness')} onChange={(t) => change({ thicknessText: t }, 'coupon.thickness')} placeholder="3/8, 10 mm" />
                 {draft.form === 'pipe' && (
-                  <SizeField label="Outside diameter" positive value={draft.outsideDiameterText} error={errorFor(errors, 'coupon.outsideDiameter')} onChange={(t) => change({ outsideDiameterText: t }, 'coupon.outsideDiameter')} placeholder="2.375 in, 60.3 mm" />
+                  <SizeField label="Outside diameter" positive bounds={lengthBounds.outsideDiameter} value={draft.outsideDiameterText} error={errorFor(errors, 'coupon.outsideDiameter')} onChange={(t) => change({ outsideDiameterText: t }, 'coupon.outsideDiameter')} placeholder="2.375 in, 60.3 mm" />
                 )}
               </>
             )}
-            <SizeField label="Deposited weld metal thickness" positive value={draft.depositedText} error={errorFor(errors, 'coupon.depositedThickness')} onChange={(t) => change({ depositedText: t }, 'coupon.depositedThickness')} hint="By this welder with this process; the coupon thickness if left empty." placeholder="3/8, 10 mm" />
+            <SizeField label="Deposited weld metal thickness" positive bounds={lengthBounds.depositedThickness} value={draft.depositedText} error={errorFor(errors, 'coupon.depositedThickness')} onChange={(t) => change({ depositedText: t }, 'coupon.depositedThickness')} hint="By this welder with this process; the coupon thickness if left empty." placeholder="3/8, 10 mm" />
             <TextField label="Layers" inputMode="numeric" value={draft.layersText} error={errorFor(errors, 'coupon.layers')} onChange={(e) => change({ layersText: e.target.value }, 'coupon.layers')} />
             <TextField label="F-No." inputMode="numeric" value={draft.fNumberText} error={errorFor(errors, 'coupon.fNumber')} hint="Filler metal F-Number; empty for no filler." onChange={(e) => change({ fNumberText: e.target.value }, 'coupon.fNumber')} />
             <SelectField

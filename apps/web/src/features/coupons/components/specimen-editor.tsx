@@ -1,6 +1,6 @@
 // One bend specimen: its kind, the discontinuities seen after bending (size as typed, location, type,
 // whether slag or another fusion cause is visible) and a photo of the bent specimen.
-import { discontinuityTypes, type Upload } from '@beadroll/rules';
+import { discontinuityTypes, lengthBounds, type Upload } from '@beadroll/rules';
 import { Button } from '@/components/ui/button';
 import { Checkbox, SelectField } from '@/components/ui/field';
 import { PlusIcon } from '@/components/ui/icons';
@@ -107,6 +107,7 @@ export function SpecimenEditor({
                   </>
                 }
                 value={d.sizeText}
+                bounds={lengthBounds.discontinuity}
                 autoFocus={focusKey === d.key}
                 onChange={(sizeText) => setDisc(j, { sizeText })}
                 onEnter={add}

@@ -9,6 +9,7 @@ import {
   couponRecordInput,
   evaluateBendTest,
   fieldsOf,
+  lengthBounds,
   pipeDimensions,
   proposeBendSpecimens,
   qualifiedRanges,
@@ -226,14 +227,14 @@ function buildCoupon(d: CouponDraft): CouponBuild {
       pipe = { nps: d.nps.trim(), schedule: d.schedule.trim() };
     }
   } else {
-    thickness = take('coupon.thickness', readLength(d.thicknessText, { positive: true })) ?? null;
+    thickness = take('coupon.thickness', readLength(d.thicknessText, { positive: true, bounds: lengthBounds.thickness })) ?? null;
     if (!thickness && !errors['coupon.thickness']) missing.push(d.form === 'pipe' ? 'the wall thickness' : 'the coupon thickness');
     if (d.form === 'pipe') {
-      outsideDiameter = take('coupon.outsideDiameter', readLength(d.outsideDiameterText, { positive: true }));
+      outsideDiameter = take('coupon.outsideDiameter', readLength(d.outsideDiameterText, { positive: true, bounds: lengthBounds.outsideDiameter }));
       if (!outsideDiameter && !errors['coupon.outsideDiameter']) missing.push('the outside diameter');
     }
   }
-  const deposited = take('coupon.depositedThickness', readLength(d.depositedText, { positive: true }));
+  const deposited = take('coupon.depositedThickness', readLength(d.depositedText, { positive: true, bounds: lengthBounds.depositedThickness }));
 
   let layers: number | undefined;
   if (d.layersText.trim() !== '') {
@@ -342,7 +343,7 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
     let readable = true;
     d.specimens.forEach((s, i) =>
       s.discontinuities.forEach((disc, j) => {
-        const read = readLength(disc.sizeText);
+        const read = readLength(disc.sizeText, { bounds: lengthBounds.discontinuity });
         if (read?.ok) sizes[disc.key] = read.length;
         else {
           readable = false;
