@@ -8,6 +8,7 @@ import { pinoHttp } from 'pino-http';
 import type { AppDeps } from './lib/context.js';
 import { apiNotFound, errorHandler } from './lib/errors.js';
 import { createAuthenticator } from './lib/auth.js';
+import { refuseUnsafeText } from './lib/input-guard.js';
 import { mountWeb } from './lib/web.js';
 import { loadActor } from './auth/auth.repository.js';
 import { healthRouter } from './health/health.router.js';
@@ -83,6 +84,7 @@ export function createApp(opts: CreateAppOptions): Express {
     next();
   });
   api.use(express.json({ limit: JSON_LIMIT }));
+  api.use(refuseUnsafeText);
   api.use(auth.initialize);
   api.use(healthRouter(deps));
   api.use(authRouter(deps, auth.requireAuth));

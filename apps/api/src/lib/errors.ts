@@ -5,6 +5,7 @@ import type { ErrorRequestHandler, RequestHandler } from 'express';
 import { ZodError } from 'zod';
 import type { ErrorBody } from '@beadroll/rules';
 import type { Logger } from './logger.js';
+import { pgCode } from './db-errors.js';
 
 export type ErrorCode = ErrorBody['error']['code'];
 
@@ -101,8 +102,56 @@ export function toAppError(err: unknown): AppError | null {
   }
   if (isDatabaseUnavailable(err))
     return new AppError('unavailable', 'The database is not reachable; try again shortly');
+  if (err instanceof URIError || isBadPathEncoding(err))
+    return new AppError('validation', 'The address holds characters that are not valid percent-encoding', 400, {
+      _path: 'Not valid percent-encoding',
+    });
+  const data = databaseDataError(err);
+  if (data) return data;
   return null;
 }
+
+/** Express's router marks a path parameter it cannot decode with status 400. */
+function isBadPathEncoding(err: unknown): boolean {
+  const e = err as { status?: unknown; message?: unknown } | null;
+  return e?.status === 400 && typeof e.message === 'string' && /Failed to decode param/.test(e.message);
+}
+
+/**
+ * A value PostgreSQL refused as data (class 22: bad encoding, NUL, number out of range, text too long,
+ * invalid syntax; 23514: a CHECK; 54000: too large for an index) is the client's input, not our fault:
+ * 400, naming the column when the database says which one it was.
+ */
+function databaseDataError(err: unknown): AppError | null {
+  const code = pgCode(err);
+  if (!code || !(code.startsWith('22') || code === '23514' || code === '54000')) return null;
+  const e = err as Record<string, unknown> & { driverError?: Record<string, unknown> };
+  const d = e.driverError ?? e;
+  const column = typeof d.column === 'string' ? d.column : fieldOfConstraint(d.constraint, d.table);
+  const message = dataMessages[code] ?? 'This value cannot be stored';
+  return AppError.validation({ [column ? camel(column) : '_body']: message }, 'Check the highlighted fields');
+}
+
+const dataMessages: Record<string, string> = {
+  '22001': 'Too long',
+  '22003': 'Out of range',
+  '22008': 'Not a valid date or time',
+  '22007': 'Not a valid date or time',
+  '22021': 'Holds characters that cannot be stored',
+  '22P05': 'Holds characters that cannot be stored',
+  '22P02': 'Not a valid value',
+  '23514': 'Not an allowed value',
+  '54000': 'Too long',
+};
+
+/** PostgreSQL names an unnamed CHECK `<table>_<column>_check`. */
+function fieldOfConstraint(constraint: unknown, table: unknown): string | null {
+  if (typeof constraint !== 'string' || typeof table !== 'string') return null;
+  const m = new RegExp(`^${table}_(\\w+?)_check\\d*$`).exec(constraint);
+  return m?.[1] ?? null;
+}
+
+const camel = (s: string) => s.replace(/_([a-z])/g, (_m, c: string) => c.toUpperCase());
 
 export function errorBody(err: AppError): ErrorBody {
   return { error: { code: err.code, message: err.message, ...(err.fields ? { fields: err.fields } : {}) } };

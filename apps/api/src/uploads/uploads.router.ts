@@ -32,7 +32,9 @@ export function uploadsRouter(deps: AppDeps, requireAuth: RequestHandler): Route
           AppError.validation({ file: 'Send one file in the field "file"' }, 'The upload is not valid'),
         );
       }
-      next(err);
+      // Anything else from the multipart parser (a broken boundary, a truncated part, a bad header) is a
+      // malformed request, never our fault.
+      next(AppError.validation({ file: 'The upload arrived incomplete or malformed; send it again' }, 'The upload is not valid'));
     });
   };
 

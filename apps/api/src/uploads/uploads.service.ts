@@ -11,6 +11,7 @@ import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
+import { clipText } from '../lib/text.js';
 import * as repo from './uploads.repository.js';
 
 export const MAX_UPLOAD_BYTES = 15 * 1024 * 1024;
@@ -33,12 +34,19 @@ export interface IncomingFile {
   originalname: string;
 }
 
-/** The name as the user gave it, without any folder part or control characters, at most 255 characters. */
+// Control characters, direction overrides and isolates (which can make "gpj.exe" read as "exe.jpg"), and
+// halves of surrogate pairs: none of them belongs in a file name.
+// eslint-disable-next-line no-control-regex
+const UNWANTED_IN_NAME = /[\u0000-\u001f\u007f-\u009f\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]|[\uD800-\uDBFF](?![\uDC00-\uDFFF])|(?<![\uD800-\uDBFF])[\uDC00-\uDFFF]/g;
+export const MAX_FILE_NAME = 255;
+
+/**
+ * The name as the user gave it, without any folder part, control or direction-override characters, at
+ * most 255 UTF-16 units (the column's limit), cut between characters, never inside a surrogate pair.
+ */
 export function cleanFileName(name: string): string {
   const base = path.posix.basename(name.replace(/\\/g, '/'));
-  // eslint-disable-next-line no-control-regex
-  const clean = base.replace(/[\u0000-\u001f\u007f]/g, '').trim();
-  return (clean || 'file').slice(0, 255);
+  return clipText(base.replace(UNWANTED_IN_NAME, '').trim() || 'file', MAX_FILE_NAME);
 }
 
 export async function createUpload(

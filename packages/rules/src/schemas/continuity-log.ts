@@ -4,6 +4,7 @@
 import { z } from 'zod';
 import { isIsoDate } from '../continuity/calendar.js';
 import { processes } from './coupon.js';
+import { searchQuerySchema, textSchema } from './common.js';
 
 const uuid = z.string().uuid('Not a valid id');
 export const monthText = z
@@ -24,8 +25,8 @@ export const gridSaveInput = z.object({
         welderId: uuid,
         process: processSchema,
         usedOn: isoDate,
-        jobReference: z.string().trim().min(1, 'Enter the job or traveler number').max(80, 'At most 80 characters'),
-        note: z.string().trim().max(500, 'At most 500 characters').optional().default(''),
+        jobReference: textSchema({ max: 80 }).min(1, 'Enter the job or traveler number'),
+        note: textSchema({ max: 500, multiline: true }).optional().default(''),
       }),
     )
     .max(2000, 'At most 2000 cells in one save')
@@ -40,9 +41,9 @@ export const gridSaveInput = z.object({
 export type GridSaveInput = z.output<typeof gridSaveInput>;
 export type GridSaveBody = z.input<typeof gridSaveInput>;
 
-export const gridWeldersQuery = z.object({ shopId: uuid, q: z.string().trim().max(100).optional() });
+export const gridWeldersQuery = z.object({ shopId: uuid, q: searchQuerySchema });
 
-export const reviewInput = z.object({ note: z.string().trim().max(500, 'At most 500 characters').optional().default('') });
+export const reviewInput = z.object({ note: textSchema({ max: 500, multiline: true }).optional().default('') });
 
 // ---- responses --------------------------------------------------------------------------------------
 

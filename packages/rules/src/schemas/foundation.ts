@@ -1,12 +1,13 @@
 // Request and response contracts of the foundation: sign-in, shops, people and welders.
 // The API parses request bodies with these; the web resolves its forms and parses responses with them.
 import { z } from 'zod';
+import { searchQuerySchema, textSchema } from './common.js';
 
 export const roles = ['qa_manager', 'foreman', 'welder'] as const;
 export const roleSchema = z.enum(roles);
 export type Role = z.infer<typeof roleSchema>;
 
-const trimmed = (max: number) => z.string().trim().min(1, 'Required').max(max, `At most ${max} characters`);
+const trimmed = (max: number) => textSchema({ max, min: 1 });
 const email = z.string().trim().toLowerCase().email('Enter a valid e-mail address').max(254);
 const uuid = z.string().uuid('Not a valid id');
 
@@ -65,7 +66,7 @@ export const shopInput = z.object({
     .trim()
     .toUpperCase()
     .regex(/^[A-Z0-9-]{2,12}$/, '2 to 12 letters, digits or dashes'),
-  location: z.string().trim().max(200).optional().default(''),
+  location: textSchema({ max: 200 }).optional().default(''),
 });
 export type ShopInput = z.input<typeof shopInput>;
 
@@ -73,7 +74,7 @@ export const shopUpdateInput = z
   .object({
     name: trimmed(120),
     code: shopInput.shape.code,
-    location: z.string().trim().max(200),
+    location: textSchema({ max: 200 }),
     active: z.boolean(),
   })
   .partial();
@@ -163,7 +164,7 @@ export const welderSortKeys = ['stamp', 'name', 'homeShop', 'createdAt', 'lapses
 export const welderStateFilters = ['current', 'lapsing', 'lapsed', 'revoked'] as const;
 
 export const welderListQuery = z.object({
-  q: z.string().trim().max(100).optional(),
+  q: searchQuerySchema,
   shopId: uuid.optional(),
   status: z.enum(['active', 'left', 'all']).optional().default('active'),
   state: z.enum(welderStateFilters).optional(),

@@ -10,13 +10,14 @@ import {
   plausibleLengthSchema,
   positiveLengthSchema,
   lengthSchema,
+  textSchema,
 } from './common.js';
 import { couponSchema, processes, transferModes, progressions } from './coupon.js';
 import { bendSpecimenKinds, discontinuityTypes } from './bend.js';
 import { weldingPositions } from '../ranges/positions.js';
 
 const uuid = z.string().uuid('Not a valid id');
-const text = (max: number) => z.string().trim().max(max, `At most ${max} characters`);
+const text = (max: number) => textSchema({ max, multiline: max > 120 });
 const required = (max: number) => text(max).min(1, 'Required');
 
 // ---- uploads ----------------------------------------------------------------------------------------
@@ -91,7 +92,7 @@ export const procedureListQuery = z.object({
     .enum([...procedureStatuses, 'all'])
     .optional()
     .default('all'),
-  q: z.string().trim().max(60).optional(),
+  q: textSchema({ max: 60 }).optional(),
 });
 
 // ---- coupons (a performance qualification test and its examination) -------------------------------
