@@ -91,6 +91,66 @@ describe('proposeBendSpecimens', () => {
     ]);
   });
 
+  it('3G + 4G is two coupons, each with its own full set: four bends in all (issue 9 error 2; published: ASME IX QW-452.1(a), read second-hand)', () => {
+    expect(first('asme-ix', 'plate', '3G+4G', inch(0.25)).options).toEqual([
+      [
+        { kind: 'face', count: 2 },
+        { kind: 'root', count: 2 },
+      ],
+    ]);
+    expect(first('asme-ix', 'plate', '3G+4G', inch(0.5)).options).toEqual([
+      [{ kind: 'side', count: 4 }],
+      [
+        { kind: 'face', count: 2 },
+        { kind: 'root', count: 2 },
+      ],
+    ]);
+    expect(first('aws-d1.1', 'plate', '3G+4G', inch(1)).options).toEqual([[{ kind: 'side', count: 4 }]]);
+    expect(first('asme-ix', 'plate', '3G+4G', inch(0.25)).text).toMatch(
+      /4 specimens in all for 3G\+4G \(2 coupons/,
+    );
+  });
+
+  it('from memory: AWS D1.1-2015 Table 4.11 — a plate over 3/8 in and under 1 in takes two side bends (issue 9 error 6)', () => {
+    expect(first('aws-d1.1', 'plate', '2G', inch(0.5)).options).toEqual([[{ kind: 'side', count: 2 }]]);
+    expect(first('aws-d1.1', 'plate', '2G', inch(0.75)).options).toEqual([[{ kind: 'side', count: 2 }]]);
+    expect(first('aws-d1.1', 'plate', '2G', mm(12)).options).toEqual([[{ kind: 'side', count: 2 }]]);
+    expect(first('aws-d1.1', 'plate', '2G', mm(10)).options[0]).toEqual([
+      { kind: 'face', count: 1 },
+      { kind: 'root', count: 1 },
+    ]);
+  });
+
+  it.each([
+    [2.375, 0.218, [{ kind: 'root', count: 2 }], 2],
+    [6.625, 0.28, [{ kind: 'root', count: 2 }], 2],
+    [6.625, 0.562, [{ kind: 'side', count: 2 }], 2],
+    [
+      16,
+      0.375,
+      [
+        { kind: 'face', count: 2 },
+        { kind: 'root', count: 2 },
+      ],
+      4,
+    ],
+    [24, 0.688, [{ kind: 'side', count: 4 }], 4],
+  ])(
+    'from memory: API 1104 welder qualification specimen table — OD %d in, wall %d in: bends %j and %d nick-breaks',
+    (od, wall, set, nick) => {
+      const p = proposeBendSpecimens({
+        code: 'api-1104',
+        form: 'pipe',
+        position: '6G',
+        depositedThickness: inch(wall),
+        outsideDiameter: inch(od),
+      });
+      expect(p.known).toBe(true);
+      expect(p.options).toEqual([set]);
+      expect(p.text).toMatch(new RegExp(`${nick} nick-break`));
+    },
+  );
+
   it('says so where Beadroll has no specimen table (api-1104, iso-9606-1)', () => {
     const p = proposeBendSpecimens({
       code: 'iso-9606-1',

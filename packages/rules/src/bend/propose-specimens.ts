@@ -29,11 +29,16 @@ const faceRoot = (n: number): SpecimenSet => [
 const side = (n: number): SpecimenSet => [{ kind: 'side', count: n }];
 const below = (t: Length, limit: DualSize): boolean => exceeds(limitIn(limit, t.unit), t.value);
 
+/** How many coupons a combined test position stands for: '3G+4G' is two plates, each with its own set. */
+export const couponsOf = (position: TestPosition): number =>
+  position === '3G+4G' ? 2 : position === '2G+3G+4G' ? 3 : 1;
+
 function asmeIx(position: TestPosition, t: Length): BendSpecimenProposal {
   const parts = splitTestPosition(position);
   const pipeFixed = parts.some((p) => p === '5G' || p === '6G');
-  // 5G and 6G pipe coupons take four bends; a 2G + 5G coupon six (QW-452.1(a))
-  const pairs = position === '2G+5G' ? 3 : pipeFixed ? 2 : 1;
+  // 5G and 6G pipe coupons take four bends; a 2G + 5G coupon six (QW-452.1(a)); 3G + 4G is two
+  // coupons, each with its own full set
+  const pairs = position === '2G+5G' ? 3 : pipeFixed ? 2 : couponsOf(position);
   const tText = formatLength(t);
   const options = below(t, IN_3_8)
     ? [faceRoot(pairs)]
@@ -50,7 +55,7 @@ function asmeIx(position: TestPosition, t: Length): BendSpecimenProposal {
     options,
     clause: 'QW-452.1(a)',
     source: 'published: ASME IX QW-452.1(a) (published copies, read second-hand)',
-    text: `Deposited weld metal ${tText}, ${band}; ${2 * pairs} specimens in all for ${position}.`,
+    text: `Deposited weld metal ${tText}, ${band}; ${2 * pairs} specimens in all for ${position}${couponsOf(position) > 1 ? ` (${couponsOf(position)} coupons, each with its own full set)` : ''}.`,
   };
 }
 
@@ -75,21 +80,87 @@ function awsD11(form: 'plate' | 'pipe', position: TestPosition, t: Length): Bend
           text: `Pipe ${position}: one face and one root bend, or two side bends.`,
         };
   }
-  return below(t, IN_1)
+  const n = couponsOf(position);
+  const each = n > 1 ? ` for each of the ${n} coupons` : '';
+  // 3/8 in plate: face and root (or two side); over 3/8 in: two side bends (from memory: Table 4.11)
+  return below(t, IN_3_8) || !exceeds(t.value, limitIn(IN_3_8, t.unit))
     ? {
         known: true,
-        options: [faceRoot(1), side(2)],
+        options: [faceRoot(n), side(2 * n)],
         clause,
         source,
-        text: `Plate of ${formatLength(t)} (the 3/8 in test plate): one face and one root bend, or two side bends.`,
+        text: `Plate of ${formatLength(t)} (the 3/8 in test plate): one face and one root bend, or two side bends${each}.`,
       }
     : {
         known: true,
-        options: [side(2)],
+        options: [side(2 * n)],
         clause,
         source,
-        text: `Plate of ${formatLength(t)} (the 1 in test plate): two side bends.`,
+        text: `Plate of ${formatLength(t)} (over 3/8 in${below(t, IN_1) ? ', under 1 in' : ''}): two side bends${each}.`,
       };
+}
+
+// API 1104 welder qualification: specimens by OD and wall (from memory: API 1104 welder qualification
+// specimen table, 20th/21st editions). Tensile specimens are listed for the record; Beadroll does not judge them.
+const IN_2_375: DualSize = { in: 2.375, mm: 60.3 };
+const IN_4_5: DualSize = { in: 4.5, mm: 114.3 };
+const IN_12_75: DualSize = { in: 12.75, mm: 323.9 };
+const IN_1_2: DualSize = { in: 0.5, mm: 12.7 };
+
+export type Api1104Specimens = {
+  tensile: number;
+  nickBreak: number;
+  root: number;
+  face: number;
+  side: number;
+};
+
+export function api1104Specimens(od: Length, wall: Length): { counts: Api1104Specimens; band: string } {
+  const thick = exceeds(wall.value, limitIn(IN_1_2, wall.unit));
+  const wallText = thick ? 'wall over 1/2 in (12.7 mm)' : 'wall 1/2 in (12.7 mm) or less';
+  const over = (l: DualSize) => exceeds(od.value, limitIn(l, od.unit));
+  if (!over(IN_4_5)) {
+    const band = below(od, IN_2_375) ? 'OD under 2-3/8 in (60.3 mm)' : 'OD 2-3/8 in to 4-1/2 in';
+    return {
+      counts: thick
+        ? { tensile: 0, nickBreak: 2, root: 0, face: 0, side: 2 }
+        : { tensile: 0, nickBreak: 2, root: 2, face: 0, side: 0 },
+      band: `${band}, ${wallText}`,
+    };
+  }
+  if (!over(IN_12_75))
+    return {
+      counts: thick
+        ? { tensile: 2, nickBreak: 2, root: 0, face: 0, side: 2 }
+        : { tensile: 2, nickBreak: 2, root: 2, face: 0, side: 0 },
+      band: `OD over 4-1/2 in to 12-3/4 in, ${wallText}`,
+    };
+  return {
+    counts: thick
+      ? { tensile: 4, nickBreak: 4, root: 0, face: 0, side: 4 }
+      : { tensile: 4, nickBreak: 4, root: 2, face: 2, side: 0 },
+    band: `OD over 12-3/4 in (323.9 mm), ${wallText}`,
+  };
+}
+
+function api1104(od: Length | undefined, wall: Length): BendSpecimenProposal {
+  if (!od)
+    return {
+      ...unknown('api-1104'),
+      text: 'API 1104 takes the number of specimens from the pipe OD and wall: enter the outside diameter.',
+    };
+  const { counts, band } = api1104Specimens(od, wall);
+  const set: SpecimenSet = (['face', 'root', 'side'] as const)
+    .filter((k) => counts[k] > 0)
+    .map((k) => ({ kind: k, count: counts[k] }));
+  const words = set.map((s) => `${s.count} ${s.kind}`).join(', ');
+  return {
+    known: true,
+    options: [set],
+    clause: 'API 1104 welder qualification specimens',
+    source: 'from memory: API 1104 welder qualification specimen table (20th/21st editions)',
+    text: `${band}: ${words} bend${set.length === 1 && set[0]?.count === 1 ? '' : 's'}, ${counts.nickBreak} nick-break${counts.tensile > 0 ? ` and ${counts.tensile} tensile` : ''} specimens.`,
+  };
 }
 
 const unknown = (code: CodeId): BendSpecimenProposal => ({
@@ -113,6 +184,8 @@ export function proposeBendSpecimens(input: BendSpecimenProposalInput): BendSpec
       return asmeIx(p.position, p.depositedThickness);
     case 'aws-d1.1':
       return awsD11(p.form, p.position, p.depositedThickness);
+    case 'api-1104':
+      return api1104(p.outsideDiameter, p.thickness ?? p.depositedThickness);
     default:
       return unknown(p.code);
   }

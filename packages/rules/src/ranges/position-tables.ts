@@ -29,6 +29,7 @@ const filletTestsPlate: PositionTable = {
 const filletTestsPipe: PositionTable = {
   '1F': { groove: [], fillet: ['F'] },
   '2F': { groove: [], fillet: ['F', 'H'] },
+  '2FR': { groove: [], fillet: ['F', 'H'] },
   '4F': { groove: [], fillet: ['F', 'H', 'O'] },
   '5F': { groove: [], fillet: ALL },
 };

@@ -11,9 +11,9 @@ export const weldingPositionNames: Record<WeldingPosition, string> = {
 };
 
 export const grooveTestPositions = ['1G', '2G', '3G', '4G', '5G', '6G', '6GR'] as const;
-export const filletTestPositions = ['1F', '2F', '3F', '4F', '5F'] as const;
+export const filletTestPositions = ['1F', '2F', '2FR', '3F', '4F', '5F'] as const;
 /** Combined tests on one qualification, e.g. a 3G plate and a 4G plate, or a 2G + 5G pipe coupon. */
-export const combinedTestPositions = ['3G+4G', '2G+5G', '3F+4F'] as const;
+export const combinedTestPositions = ['3G+4G', '2G+3G+4G', '2G+5G', '3F+4F'] as const;
 export const testPositions = [
   ...grooveTestPositions,
   ...filletTestPositions,
@@ -32,17 +32,20 @@ export const testPositionNames: Record<TestPosition, string> = {
   '6GR': 'pipe fixed at 45° with a restriction ring (T-, K-, Y-connections)',
   '1F': 'flat fillet',
   '2F': 'horizontal fillet',
+  '2FR': 'horizontal fillet, pipe rotated',
   '3F': 'vertical fillet',
   '4F': 'overhead fillet',
   '5F': 'pipe fixed horizontal, fillet',
   '3G+4G': 'vertical and overhead groove',
+  '2G+3G+4G': 'horizontal, vertical and overhead groove',
   '2G+5G': 'horizontal and fixed horizontal pipe groove',
   '3F+4F': 'vertical and overhead fillet',
 };
 
 export const splitTestPosition = (p: TestPosition): SingleTestPosition[] =>
   p.split('+') as SingleTestPosition[];
-export const isFilletTest = (p: TestPosition): boolean => p.endsWith('F');
+// '2FR' (rotated pipe) ends in R: a fillet test is any position without a groove part.
+export const isFilletTest = (p: TestPosition): boolean => !p.includes('G');
 
 /** ISO 6947 position designations and their nearest US names (TRADE.md §7). */
 export const iso6947Positions: ReadonlyArray<{ iso: string; name: string; us: string[] }> = [

@@ -38,6 +38,8 @@ export const couponSchema = z.object({
   outsideDiameter: plausibleLengthSchema(lengthBounds.outsideDiameter).optional(),
   backing: z.boolean({ error: 'Say whether the coupon was welded with backing' }),
   fNumber: z.number().int('F-No. is a whole number').min(1).max(99).optional(),
+  /** GTAW or PAW welded without filler metal (autogenous): qualifies welding without filler only (QW-404.14). */
+  withoutFiller: z.boolean().optional(),
   progression: z.enum(progressions).optional(),
 });
 export type CouponInput = z.input<typeof couponSchema>;
@@ -48,5 +50,9 @@ export const bendSpecimenProposalInputSchema = z.object({
   form: couponSchema.shape.form,
   position: couponSchema.shape.position,
   depositedThickness: positiveLengthSchema,
+  /** Pipe OD: API 1104 takes its specimen count from the OD and the wall. */
+  outsideDiameter: positiveLengthSchema.optional(),
+  /** Coupon thickness (pipe wall), where it differs from the deposit (API 1104 counts by the wall). */
+  thickness: positiveLengthSchema.optional(),
 });
 export type BendSpecimenProposalInput = z.input<typeof bendSpecimenProposalInputSchema>;
