@@ -56,11 +56,22 @@ describe('@beadroll/rules public API', () => {
     const custom: rules.BendCriteria = { ...rules.criteriaSets['asme-ix'], id: 'copy' };
     const criteriaId: rules.CriteriaId = 'shop-general';
     expect(
-      rules.evaluateBendTest({ criteria: custom, specimens: [{ kind: 'face', discontinuities: [] }] }).result,
+      rules.evaluateBendTest({
+        criteria: custom,
+        specimens: [
+          { kind: 'face', discontinuities: [] },
+          { kind: 'root', discontinuities: [] },
+        ],
+      }).result,
     ).toBe('accept');
     expect(
-      rules.evaluateBendTest({ criteria: criteriaId, specimens: [{ kind: 'face', discontinuities: [] }] })
-        .result,
+      rules.evaluateBendTest({
+        criteria: criteriaId,
+        specimens: [
+          { kind: 'face', discontinuities: [] },
+          { kind: 'root', discontinuities: [] },
+        ],
+      }).result,
     ).toBe('accept');
   });
 });

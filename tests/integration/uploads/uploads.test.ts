@@ -169,7 +169,10 @@ describe('uploads', () => {
       examination: {
         method: 'bend',
         criteria: 'asme-ix',
-        specimens: [{ kind: 'face', discontinuities: [], photoUploadId: foreign.id }],
+        specimens: [
+          { kind: 'face', discontinuities: [], photoUploadId: foreign.id },
+          { kind: 'root', discontinuities: [] },
+        ],
       },
     });
     const res = await qa.post('/api/coupons').send(body);
@@ -212,7 +215,10 @@ describe('uploads', () => {
             examination: {
               method: 'bend',
               criteria: 'asme-ix',
-              specimens: [{ kind: 'root', discontinuities: [], photoUploadId: photo.id }],
+              specimens: [
+                { kind: 'root', discontinuities: [], photoUploadId: photo.id },
+                { kind: 'face', discontinuities: [] },
+              ],
             },
           }),
         )

@@ -144,6 +144,12 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
         throw AppError.validation(prefixed('examination', err.fields), err.message);
       throw err;
     }
+    // a short or mixed specimen set is never judged as a whole (QW-302.3, QW-452.1(a))
+    if (evaluation.result === 'incomplete')
+      throw AppError.validation(
+        { 'examination.specimens': evaluation.completeness[0]?.message ?? 'The specimen set is incomplete' },
+        'The bend specimen set is incomplete',
+      );
     examResult = evaluation.result;
     examination = {
       method: 'bend',
@@ -155,7 +161,7 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
           kind: s.kind,
           discontinuities: s.discontinuities,
           photoUploadId: s.photoUploadId ?? null,
-          result: e?.result ?? 'accept',
+          result: e?.result === 'incomplete' || !e ? 'accept' : e.result,
           reasons: e?.reasons ?? [],
         };
       }),

@@ -20,7 +20,12 @@ import {
 import { createDocument, documentBuffer } from './fonts.js';
 import { ACCENT, FlowLayout, HAIRLINE, INK, MUTED, WARN, stampPages, type Row } from './pdf-layout.js';
 
-const RESULT_WORDS = { accept: 'Accept', reject: 'Reject', 'replace-specimen': 'Replace specimen' } as const;
+const RESULT_WORDS = {
+  accept: 'Accept',
+  reject: 'Reject',
+  'replace-specimen': 'Replace specimen',
+  incomplete: 'Incomplete',
+} as const;
 
 const KIND_WORDS = { face: 'Face bend', root: 'Root bend', side: 'Side bend' } as const;
 

@@ -36,6 +36,8 @@ const api1104: BendCriteria = {
   cumulative: null,
   corner: {
     ignore: 'unless-fusion-related',
+    // only cracks along the edges are set aside; any other imperfection there is an obvious one
+    causes: ['slag', 'lack-of-fusion', 'porosity', 'undercut', 'other'],
     allowance: { max: { in: 1 / 4, mm: 6 }, inclusive: false, over: 'judge' },
   },
 };

@@ -17,8 +17,16 @@ const corner = (value: number, unit: 'in' | 'mm' = 'in', extra: Partial<D> = {})
   location: 'corner',
   ...extra,
 });
+// The specimen under test is a face bend; a clean root bend completes the set.
 const judge = (criteria: BendTestInput['criteria'], ds: D[], more: Partial<BendTestInput> = {}) =>
-  evaluateBendTest({ criteria, specimens: [{ id: 'S1', kind: 'face', discontinuities: ds }], ...more });
+  evaluateBendTest({
+    criteria,
+    specimens: [
+      { id: 'S1', kind: 'face', discontinuities: ds },
+      { id: 'R1', kind: 'root', discontinuities: [] },
+    ],
+    ...more,
+  });
 const result = (
   criteria: BendTestInput['criteria'],
   ds: D[],
@@ -140,13 +148,14 @@ describe('aws-d1.1', () => {
     );
   });
 
-  it('a specimen with sizes in both systems must pass the sum in both', () => {
-    // 9 mm + 0.06 in = 10.52 mm (over 10 mm) and 0.414 in (over 3/8 in)
-    expect(result('aws-d1.1', [surface(3, 'mm'), surface(3, 'mm'), surface(3, 'mm'), surface(0.06)])).toBe(
-      'reject',
-    );
-    // 6 mm + 0.125 in = 9.175 mm (under 10 mm) but 0.361 in (under 3/8 in): accepts in both
-    expect(result('aws-d1.1', [surface(3, 'mm'), surface(3, 'mm'), surface(0.125)])).toBe('accept');
+  it('from memory: AWS D1.1 4.9.3.3 (2015) — a test recorded in mm is judged on the 1 mm floor and 10 mm sum', () => {
+    // 4 × 2.6 mm = 10.4 mm > 10 mm; 0.9 mm indications are not counted (1 mm floor)
+    expect(
+      result('aws-d1.1', [surface(2.6, 'mm'), surface(2.6, 'mm'), surface(2.6, 'mm'), surface(2.6, 'mm')]),
+    ).toBe('reject');
+    expect(
+      result('aws-d1.1', [surface(3, 'mm'), surface(3, 'mm'), surface(3, 'mm'), surface(0.9, 'mm')]),
+    ).toBe('accept');
   });
 });
 
@@ -340,7 +349,18 @@ describe('input validation', () => {
 
 // ---- properties -------------------------------------------------------------------------------------
 
-const RANK: Record<BendResult, number> = { accept: 0, 'replace-specimen': 1, reject: 2 };
+const RANK: Record<BendResult, number> = { accept: 0, 'replace-specimen': 1, incomplete: 2, reject: 3 };
+/** One test is recorded in one unit: every size of the generated specimens in the same one. */
+const oneUnitOf = <S extends { discontinuities: D[] }>(specimens: S[], unit: 'in' | 'mm'): S[] =>
+  specimens.map((s) => ({
+    ...s,
+    discontinuities: s.discontinuities.map((d) =>
+      d.size.unit === unit
+        ? d
+        : { ...d, size: { value: unit === 'mm' ? d.size.value * 25.4 : d.size.value / 25.4, unit } },
+    ),
+  }));
+const arbUnit = fc.constantFrom<'in' | 'mm'>('in', 'mm');
 const arbDiscontinuity: fc.Arbitrary<D> = fc.record({
   size: fc.oneof(
     fc.record({ value: fc.double({ min: 0, max: 0.5, noNaN: true }), unit: fc.constant<'in'>('in') }),
@@ -372,10 +392,14 @@ describe('properties', () => {
         arbCriteria,
         fc.array(arbSpecimen, { minLength: 1, maxLength: 6 }),
         arbWall,
-        (criteria, specimens, wall) => {
+        arbUnit,
+        (criteria, raw, wall, unit) => {
+          const specimens = oneUnitOf(raw, unit);
           const r = evaluateBendTest({ criteria, specimens, wallThickness: wall });
           for (const s of r.specimens) expect(RANK[r.result]).toBeGreaterThanOrEqual(RANK[s.result]);
-          expect(RANK[r.result]).toBe(Math.max(...r.specimens.map((s) => RANK[s.result])));
+          const incomplete = r.completeness.length > 0 ? RANK.incomplete : 0;
+          expect(RANK[r.result]).toBe(Math.max(incomplete, ...r.specimens.map((s) => RANK[s.result])));
+          if (r.completeness.length > 0) expect(r.result).not.toBe('accept');
         },
       ),
     );
@@ -389,7 +413,14 @@ describe('properties', () => {
         arbDiscontinuity,
         fc.nat(),
         arbWall,
-        (criteria, specimen, extra, at, wall) => {
+        arbUnit,
+        (criteria, rawSpecimen, rawExtra, at, wall, unit) => {
+          const [specimen] = oneUnitOf([rawSpecimen], unit) as [typeof rawSpecimen];
+          const [
+            {
+              discontinuities: [extra],
+            },
+          ] = oneUnitOf([{ discontinuities: [rawExtra] }], unit) as [{ discontinuities: [D] }];
           const before = evaluateBendTest({ criteria, specimens: [specimen], wallThickness: wall });
           fc.pre(before.result === 'reject');
           const ds = [...specimen.discontinuities];
@@ -411,8 +442,9 @@ describe('properties', () => {
         arbCriteria,
         fc.array(arbSpecimen, { minLength: 1, maxLength: 4 }),
         arbWall,
-        (criteria, specimens, wall) => {
-          const r = evaluateBendTest({ criteria, specimens, wallThickness: wall });
+        arbUnit,
+        (criteria, raw, wall, unit) => {
+          const r = evaluateBendTest({ criteria, specimens: oneUnitOf(raw, unit), wallThickness: wall });
           for (const s of r.specimens) {
             if (s.result === 'accept') expect(s.reasons).toEqual([]);
             else expect(s.reasons.length).toBeGreaterThan(0);
@@ -424,5 +456,125 @@ describe('properties', () => {
         },
       ),
     );
+  });
+});
+
+// ---- issue 9, definite errors 1, 7 and 8 ------------------------------------------------------------
+
+const clean = (kind: 'face' | 'root' | 'side') => ({ kind, discontinuities: [] as D[] });
+
+describe('complete specimen sets (issue 9 error 1)', () => {
+  it('common practice (no source); from memory: QW-302.3 — a face bend alone is never accepted, with or without the coupon', () => {
+    const alone = evaluateBendTest({ criteria: 'asme-ix', specimens: [clean('face')] });
+    expect(alone.result).toBe('incomplete');
+    expect(alone.completeness[0]?.message).toMatch(/face and root bends must both be present/);
+    const withCoupon = evaluateBendTest({
+      criteria: 'asme-ix',
+      specimens: [clean('face')],
+      coupon: {
+        code: 'asme-ix',
+        form: 'plate',
+        position: '1G',
+        depositedThickness: { value: 0.25, unit: 'in' },
+      },
+    });
+    expect(withCoupon.result).toBe('incomplete');
+    expect(withCoupon.completeness[0]?.clause).toBe('QW-452.1(a)');
+  });
+
+  it('common practice (no source) — face and side bends mixed are incomplete; a lone side bend too', () => {
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: [clean('face'), clean('side')] }).result).toBe(
+      'incomplete',
+    );
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: [clean('side')] }).result).toBe('incomplete');
+    expect(
+      evaluateBendTest({ criteria: 'asme-ix', specimens: [clean('face'), clean('face'), clean('root')] })
+        .result,
+    ).toBe('incomplete');
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: [clean('side'), clean('side')] }).result).toBe(
+      'accept',
+    );
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: [clean('face'), clean('root')] }).result).toBe(
+      'accept',
+    );
+  });
+
+  it('published: ASME IX QW-452.1(a) (read second-hand) — a 5G or 6G coupon needs four bends, 2G + 5G six', () => {
+    const pipe = (position: string) => ({
+      code: 'asme-ix' as const,
+      form: 'pipe' as const,
+      position,
+      depositedThickness: { value: 0.28, unit: 'in' as const },
+    });
+    const two = [clean('face'), clean('root')];
+    const four = [...two, ...two];
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: two, coupon: pipe('5G') }).result).toBe(
+      'incomplete',
+    );
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: two, coupon: pipe('6G') }).result).toBe(
+      'incomplete',
+    );
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: four, coupon: pipe('6G') }).result).toBe(
+      'accept',
+    );
+    expect(evaluateBendTest({ criteria: 'asme-ix', specimens: four, coupon: pipe('2G+5G') }).result).toBe(
+      'incomplete',
+    );
+    expect(
+      evaluateBendTest({ criteria: 'asme-ix', specimens: [...four, ...two], coupon: pipe('2G+5G') }).result,
+    ).toBe('accept');
+  });
+
+  it('a rejecting specimen still rejects a short set (a fail is final)', () => {
+    expect(
+      evaluateBendTest({
+        criteria: 'asme-ix',
+        specimens: [{ kind: 'face', discontinuities: [surface(0.2)] }],
+      }).result,
+    ).toBe('reject');
+  });
+});
+
+describe('corner discontinuities with an internal cause (issue 9 error 7)', () => {
+  it('published: ASME IX QW-163 (read second-hand) — corner porosity is an internal discontinuity and counts', () => {
+    expect(result('asme-ix', [corner(0.2, 'in', { type: 'porosity' })])).toBe('reject');
+    expect(result('asme-ix', [corner(0.2, 'in', { type: 'crack' })])).toBe('accept');
+  });
+
+  it('from memory: API 1104 bend test acceptance — an obvious imperfection at the corner (porosity, undercut) is judged', () => {
+    const wall = { wallThickness: { value: 0.5, unit: 'in' as const } };
+    expect(result('api-1104', [corner(0.2, 'in', { type: 'porosity' })], wall)).toBe('reject');
+    expect(result('api-1104', [corner(0.2, 'in', { type: 'undercut' })], wall)).toBe('reject');
+    expect(result('api-1104', [corner(0.2, 'in', { type: 'crack' })], wall)).toBe('accept');
+  });
+});
+
+describe('one unit system per test (issue 9 error 8)', () => {
+  it('common practice (no source) — mixed inches and millimetres on one test are refused, naming the field', () => {
+    const input: BendTestInput = {
+      criteria: 'aws-d1.1',
+      specimens: [
+        { kind: 'face', discontinuities: [surface(3, 'mm'), surface(3, 'mm')] },
+        { kind: 'root', discontinuities: [surface(0.06)] },
+      ],
+    };
+    expect(fieldsThrown(() => evaluateBendTest(input))).toEqual(['specimens.1.discontinuities.0.size.unit']);
+    try {
+      evaluateBendTest(input);
+    } catch (e) {
+      expect((e as RulesInputError).message).toMatch(
+        /recorded in millimetres .* enter every size on one test in mm/,
+      );
+    }
+  });
+
+  it('from memory: AWS D1.1 4.9.3.3 (2015) — the 1/32 in floor applies in inches, 1 mm in millimetres', () => {
+    // 0.035 in is over 1/32 in and counts; 0.9 mm is under 1 mm and does not
+    expect(result('aws-d1.1', [surface(0.125), surface(0.125), surface(0.125), surface(0.035)])).toBe(
+      'reject',
+    );
+    expect(
+      result('aws-d1.1', [surface(3, 'mm'), surface(3, 'mm'), surface(3, 'mm'), surface(0.9, 'mm')]),
+    ).toBe('accept');
   });
 });

@@ -2,6 +2,7 @@
 // alike) and the specimens a QA manager records.
 import { z } from 'zod';
 import { criteriaIdSchema, lengthSchema, positiveLengthSchema } from './common.js';
+import { bendSpecimenProposalInputSchema } from './coupon.js';
 
 /** A size limit in either unit system; a missing one is the exact conversion of the other. */
 export const sizeLimitSchema = z
@@ -13,6 +14,21 @@ export const sizeLimitSchema = z
     error: 'Give the limit in inches or millimetres',
   });
 export type SizeLimit = z.infer<typeof sizeLimitSchema>;
+
+export const discontinuityTypes = [
+  'crack',
+  'porosity',
+  'slag',
+  'lack-of-fusion',
+  'undercut',
+  'tear',
+  'other',
+] as const;
+export type DiscontinuityType = (typeof discontinuityTypes)[number];
+
+/** Corner discontinuities of these types have an internal cause and are judged like the rest (QW-163
+ *  "lack of fusion, slag inclusions, or other internal discontinuities"). */
+export const DEFAULT_CORNER_CAUSES: readonly DiscontinuityType[] = ['slag', 'lack-of-fusion', 'porosity'];
 
 export const bendCriteriaSchema = z.object({
   id: z.string().trim().min(1, 'Required').max(60),
@@ -40,6 +56,9 @@ export const bendCriteriaSchema = z.object({
     /** 'unless-fusion-related': corner discontinuities are not considered unless slag, lack of fusion or
      *  another internal cause is evident; 'never': corners are judged like the rest of the surface. */
     ignore: z.enum(['unless-fusion-related', 'never']),
+    /** Types that show a cause and make a corner discontinuity count; absent = slag, lack of fusion and
+     *  porosity (the internal discontinuities). A discontinuity marked fusionRelated always counts. */
+    causes: z.array(z.enum(discontinuityTypes)).max(7).optional(),
     /** A size up to which an ignored corner discontinuity stays ignored, and what happens above it. */
     allowance: z
       .object({
@@ -55,16 +74,6 @@ export const bendCriteriaSchema = z.object({
   }),
 });
 export type BendCriteria = z.infer<typeof bendCriteriaSchema>;
-
-export const discontinuityTypes = [
-  'crack',
-  'porosity',
-  'slag',
-  'lack-of-fusion',
-  'undercut',
-  'tear',
-  'other',
-] as const;
 
 export const discontinuitySchema = z.object({
   /** Greatest dimension on the convex surface. */
@@ -90,6 +99,8 @@ export const bendTestInputSchema = z.object({
   criteria: z.union([criteriaIdSchema, bendCriteriaSchema]),
   /** Needed by criteria that limit by a fraction of the wall (api-1104). */
   wallThickness: positiveLengthSchema.optional(),
-  specimens: z.array(bendSpecimenSchema).min(1, 'Add at least one specimen').max(20),
+  specimens: z.array(bendSpecimenSchema).min(1, 'Add at least one specimen').max(24),
+  /** The coupon the specimens come from: the set is then checked against the code's specimen table. */
+  coupon: bendSpecimenProposalInputSchema.optional(),
 });
 export type BendTestInput = z.input<typeof bendTestInputSchema>;

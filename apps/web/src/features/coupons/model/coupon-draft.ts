@@ -371,7 +371,9 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
             }),
           })),
         });
-        exam = evaluation.result;
+        // a short or mixed specimen set has no verdict yet (never an accept)
+        if (evaluation.result === 'incomplete') incomplete = evaluation.completeness[0]?.message ?? 'The specimen set is incomplete.';
+        else exam = evaluation.result;
         evaluation.specimens.forEach((e, i) => {
           const s = d.specimens[i];
           const where = s ? specimenLabel(s, i) : `Specimen ${i + 1}`;
