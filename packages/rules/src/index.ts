@@ -5,6 +5,7 @@ export * from './schemas/foundation.js';
 export * from './schemas/common.js';
 export * from './schemas/bend.js';
 export * from './schemas/coupon.js';
+export * from './schemas/examination.js';
 export * from './schemas/continuity.js';
 export * from './schemas/records.js';
 export * from './schemas/continuity-admin.js';
@@ -36,6 +37,7 @@ export { normalizeNps, normalizeSchedule, pipeDimensions } from './pipes/pipe-di
 // bend tests
 export { criteriaSets } from './bend/criteria-sets.js';
 export {
+  bendSetCompleteness,
   evaluateBendTest,
   type BendEvaluation,
   type BendReason,
@@ -43,11 +45,18 @@ export {
   type SpecimenEvaluation,
 } from './bend/evaluate-bend-test.js';
 export {
+  api1104Specimens,
+  couponsOf,
   proposeBendSpecimens,
+  type Api1104Specimens,
   type BendSpecimenProposal,
   type SpecimenKind,
   type SpecimenSet,
 } from './bend/propose-specimens.js';
+
+// the whole examination of a coupon
+export { evaluateCoupon } from './examination/evaluate-coupon.js';
+export { RETEST_RULES } from './examination/retests.js';
 
 // qualified ranges
 export * from './ranges/positions.js';

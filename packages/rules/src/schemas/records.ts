@@ -14,6 +14,17 @@ import {
 } from './common.js';
 import { couponSchema, processes, transferModes, progressions } from './coupon.js';
 import { bendSpecimenKinds, discontinuityTypes } from './bend.js';
+import {
+  couponEvaluationSchema,
+  couponExaminationSchema,
+  couponResults,
+  filletBreakSchema,
+  macroEtchSchema,
+  nickBreakSpecimenSchema,
+  retestSchema,
+  visualExaminationSchema,
+  volumetricExaminationSchema,
+} from './examination.js';
 import { weldingPositions } from '../ranges/positions.js';
 
 const uuid = z.string().uuid('Not a valid id');
@@ -130,6 +141,85 @@ export const examinationInput = z.discriminatedUnion('method', [
   }),
 ]);
 export type ExaminationInput = z.input<typeof examinationInput>;
+
+/**
+ * The examination as the coupon form records it (the request shape couponRecordInput moves to): the parts
+ * of couponExaminationSchema with the bend sizes as typed. The coupon's code decides the acceptance
+ * criteria; `criteria`, when sent, must be that code (an in-house set goes in `additionalCriteria`,
+ * applied in addition, never instead). Bodies of the first shape ({ method: 'bend' | 'radiography' |
+ * 'ultrasonic', … }) are read through upgradeExamination.
+ */
+export const recordedExaminationSchema = z.object({
+  criteria: criteriaIdSchema.optional(),
+  additionalCriteria: criteriaIdSchema.optional(),
+  bend: z
+    .object({ specimens: z.array(recordedSpecimenSchema).min(1, 'Add at least one bend specimen').max(24) })
+    .optional(),
+  volumetric: volumetricExaminationSchema.extend({ reportUploadId: uuid.nullable().optional() }).optional(),
+  filletBreak: filletBreakSchema.optional(),
+  macroEtch: macroEtchSchema.optional(),
+  nickBreak: z
+    .object({ specimens: z.array(nickBreakSpecimenSchema).min(1, 'Add at least one specimen').max(24) })
+    .optional(),
+  layers: couponExaminationSchema.shape.layers,
+  retest: retestSchema.optional(),
+});
+export type RecordedExamination = z.output<typeof recordedExaminationSchema>;
+export type RecordedExaminationInput = z.input<typeof recordedExaminationSchema>;
+
+/** The first request shape of an examination, read into the current one. */
+export function upgradeExamination(raw: unknown): unknown {
+  if (typeof raw !== 'object' || raw === null || !('method' in raw)) return raw;
+  const old = raw as {
+    method?: unknown;
+    criteria?: unknown;
+    specimens?: unknown;
+    result?: unknown;
+    reportNumber?: unknown;
+    reportUploadId?: unknown;
+  };
+  if (old.method === 'bend') return { criteria: old.criteria, bend: { specimens: old.specimens } };
+  if (old.method === 'radiography' || old.method === 'ultrasonic')
+    return {
+      volumetric: {
+        method: old.method,
+        indications: [],
+        examinerResult: old.result,
+        ...(typeof old.reportNumber === 'string' && old.reportNumber !== ''
+          ? { reportNumber: old.reportNumber }
+          : {}),
+        reportUploadId: old.reportUploadId ?? null,
+      },
+    };
+  return raw;
+}
+
+/** The visual examination: the examiner's result with any findings ('accept' / 'reject' alone still read). */
+export const visualInput = z.preprocess(
+  (v) => (typeof v === 'string' ? { result: v } : v),
+  visualExaminationSchema,
+);
+
+/** A coupon's verdict with the fourth value: the examination the code calls for is not all recorded. */
+export const couponVerdicts = couponResults;
+
+/** The examination as stored and returned: as recorded, each bend specimen with its verdict and photo. */
+export const examinationRecordSchema = recordedExaminationSchema.extend({
+  bend: z
+    .object({
+      specimens: z.array(
+        recordedSpecimenSchema.extend({
+          result: z.enum(couponResults),
+          reasons: z.array(z.object({ clause: z.string(), message: z.string() })),
+          photo: uploadSchema.nullable(),
+        }),
+      ),
+    })
+    .optional(),
+  volumetric: volumetricExaminationSchema.extend({ report: uploadSchema.nullable() }).optional(),
+});
+export type ExaminationRecord = z.infer<typeof examinationRecordSchema>;
+export { couponEvaluationSchema };
 
 export const couponRecordInput = z.object({
   welderId: uuid,
