@@ -29,6 +29,7 @@ import { lapseWatchRouter } from './lapse-watch/lapse-watch.router.js';
 import { overviewRouter } from './overview/overview.router.js';
 import { refuseBearer, withApiTokens } from './api-tokens/bearer.js';
 import { apiTokensRouter } from './api-tokens/api-tokens.router.js';
+import { openApiRouter } from './openapi/openapi.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -106,6 +107,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/lapse-watch', lapseWatchRouter(deps, auth.requireAuth));
   api.use('/overview', overviewRouter(deps, auth.requireAuth));
   api.use('/api-tokens', apiTokensRouter(deps, auth.requireAuth));
+  api.use(openApiRouter());
   if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps));
   api.use(apiNotFound);
   app.use('/api', api);

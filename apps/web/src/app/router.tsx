@@ -30,6 +30,7 @@ export function createRouter(queryClient: QueryClient) {
     { path: paths.devMailMessage.path, lazy: page(() => import('./routes/dev/mail-message')) },
     // The public Verify page: no sign-in and no shell, reached from the QR code on a wallet card.
     { path: paths.verify.path, lazy: page(() => import('./routes/public/verify')) },
+    { path: paths.apiReference.path, lazy: page(() => import('./routes/public/api-reference')) },
     {
       id: 'app',
       path: '/',

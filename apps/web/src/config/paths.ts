@@ -30,6 +30,7 @@ export const paths = {
   settings: { path: '/settings', href: () => '/settings' },
   coupon: { path: '/coupons/:id', href: (id: string) => `/coupons/${encodeURIComponent(id)}` },
   verify: { path: '/verify/:token', href: (token: string) => `/verify/${encodeURIComponent(token)}` },
+  apiReference: { path: '/api-reference', href: () => '/api-reference' },
   devMail: { path: '/dev/mail', href: () => '/dev/mail' },
   devMailMessage: { path: '/dev/mail/:id', href: (id: string) => `/dev/mail/${encodeURIComponent(id)}` },
 } as const;
