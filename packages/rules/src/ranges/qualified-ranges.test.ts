@@ -180,7 +180,8 @@ describe('AWS D1.1 thickness and diameter', () => {
   it('from memory: AWS D1.1 welder qualification table — 3/8 in plate qualifies 1/8 in to 3/4 in; 1 in plate 1/8 in and over', () => {
     expect(aws({ thickness: inch(0.375) }).thickness).toMatchObject({ min: inch(0.125), max: inch(0.75) });
     expect(aws({ thickness: inch(1) }).thickness).toMatchObject({ min: inch(0.125), max: null });
-    expect(aws({ thickness: inch(0.999) }).thickness.max).toEqual(inch(0.75));
+    // over 3/8 in and under 1 in: 2T (issue 9 error 6)
+    expect(aws({ thickness: inch(0.999) }).thickness.max).toEqual(inch(1.998));
     expect(aws({ thickness: mm(10) }).thickness).toMatchObject({ min: mm(3), max: mm(20) });
     expect(aws({ thickness: mm(25) }).thickness.max).toBeNull();
   });
@@ -318,10 +319,78 @@ describe('other essential variables (TRADE.md §5)', () => {
     ]);
   });
 
-  it('an F-No. outside the table, or another code, qualifies the F-No. tested only', () => {
-    expect(qualifiedRanges(plate({ fNumber: 45 })).fNumbers).toEqual([45]);
-    expect(qualifiedRanges(plate({ code: 'aws-d1.1', fNumber: 4 })).fNumbers).toEqual([4]);
+  it('an F-No. outside the tables, or another code, qualifies the F-No. tested only', () => {
+    expect(qualifiedRanges(plate({ fNumber: 9 })).fNumbers).toEqual([9]);
+    expect(
+      qualifiedRanges(
+        plate({
+          code: 'api-1104',
+          form: 'pipe',
+          position: '1G',
+          outsideDiameter: inch(6.625),
+          thickness: inch(0.28),
+          fNumber: 4,
+        }),
+      ).fNumbers,
+    ).toEqual([4]);
     expect(qualifiedRanges(plate({ fNumber: undefined, process: 'GTAW' })).fNumbers).toEqual([]);
+  });
+
+  // ---- issue 9, definite error 5 ------------------------------------------------------------------
+  it.each([
+    [21, [21, 22, 23, 24, 25, 26]],
+    [26, [21, 22, 23, 24, 25, 26]],
+    [34, [34, 41, 42, 43, 44, 45, 46]],
+    [45, [34, 41, 42, 43, 44, 45, 46]],
+    [51, [51, 52, 53, 54, 55]],
+    [61, [61]],
+    [31, [31]],
+    [37, [37]],
+    [71, [71]],
+    [72, [72]],
+  ])('from memory: ASME IX QW-433 — F-No. %i qualifies %j', (f, group) => {
+    const r = qualifiedRanges(plate({ process: 'GTAW', fNumber: f, backing: false }));
+    expect(r.fNumbers).toEqual(group);
+    expect(r.fNumberBacking.every((d) => d.backing.join() === 'with,without')).toBe(true);
+    expect(r.limits.find((l) => l.variable === 'fNumber')).toMatchObject({
+      clause: 'QW-433',
+      source: 'from-memory',
+    });
+  });
+
+  it.each([
+    [4, [1, 2, 3, 4]],
+    [3, [1, 2, 3]],
+    [2, [1, 2]],
+    [1, [1]],
+  ])(
+    'from memory: AWS D1.1-2015 Table 4.12 item (2), Table 4.13 — SMAW F%i qualifies %j, backing plays no part',
+    (f, down) => {
+      for (const backing of [true, false]) {
+        const r = qualifiedRanges(plate({ code: 'aws-d1.1', fNumber: f, backing }));
+        expect(r.fNumbers).toEqual(down);
+        expect(r.fNumberBacking.every((d) => d.backing.join() === 'with,without')).toBe(true);
+      }
+    },
+  );
+
+  it('from memory: AWS D1.1-2015 Table 4.12 — processes other than SMAW have no F-No. variable', () => {
+    const r = qualifiedRanges(plate({ code: 'aws-d1.1', process: 'FCAW', fNumber: 6 }));
+    expect(r.fNumbersAny).toBe(true);
+    expect(r.limits.find((l) => l.variable === 'fNumber')?.text).toMatch(/no F-No\. variable for FCAW/);
+  });
+
+  it('from memory: ASME IX QW-404.14 — autogenous GTAW qualifies welding without filler metal only', () => {
+    const r = qualifiedRanges(plate({ process: 'GTAW', fNumber: undefined, withoutFiller: true }));
+    expect(r.withoutFillerOnly).toBe(true);
+    expect(r.fNumbers).toEqual([]);
+    expect(r.limits.find((l) => l.variable === 'fNumber')).toMatchObject({ clause: 'QW-404.14' });
+    expect(
+      fieldOf(() => qualifiedRanges(plate({ process: 'GTAW', fNumber: 6, withoutFiller: true }))),
+    ).toEqual(['fNumber']);
+    expect(fieldOf(() => qualifiedRanges(plate({ process: 'SMAW', withoutFiller: true })))).toEqual([
+      'withoutFiller',
+    ]);
   });
 
   it('from memory: ASME QW-405.3; API 1104 — uphill and downhill qualify separately; vertical tests must say which', () => {
@@ -392,5 +461,80 @@ describe('input validation', () => {
       } as unknown as CouponInput),
     );
     expect(fields.sort()).toEqual(['backing', 'code', 'thickness.value']);
+  });
+});
+
+// ---- issue 9, definite errors 3, 4 and 6 ----------------------------------------------------------------
+
+describe('plate groove tests on pipe (issue 9 error 3)', () => {
+  it.each([
+    ['1G', ['F'], ['F']],
+    ['2G', ['F', 'H'], ['F', 'H']],
+    ['3G', ['F', 'V'], ['F']],
+    ['4G', ['F', 'O'], ['F']],
+    ['3G+4G', ['F', 'V', 'O'], ['F']],
+    ['2G+3G+4G', ['F', 'H', 'V', 'O'], ['F', 'H']],
+  ])(
+    'from memory: QW-461.9 — ASME plate %s: plate and pipe over 24 in OD %j; pipe 2-7/8 to 24 in OD %j',
+    (position, plateAndLarge, smallPipe) => {
+      const r = qualifiedRanges(plate({ position, progression: 'uphill' }));
+      expect(r.positions.groove).toEqual(plateAndLarge);
+      expect(r.grooveOnPipeUpTo24).toEqual(smallPipe);
+    },
+  );
+
+  it('pipe tests have no separate small-pipe row; AWS plate tests qualify pipe only at 24 in and over', () => {
+    expect(qualifiedRanges(pipe({ position: '6G', progression: 'uphill' })).grooveOnPipeUpTo24).toBeNull();
+    expect(
+      qualifiedRanges(plate({ code: 'aws-d1.1', position: '2G+3G+4G', progression: 'uphill' })).positions
+        .groove,
+    ).toEqual(['F', 'H', 'V', 'O']);
+  });
+});
+
+describe('fillet welds from a groove test (issue 9 error 4)', () => {
+  it('from memory: QW-303.1 — a groove test qualifies fillet welds in all thicknesses and diameters', () => {
+    const r = qualifiedRanges(
+      pipe({ outsideDiameter: inch(0.84), thickness: inch(0.147), position: '6G', progression: 'uphill' }),
+    );
+    expect(r.thickness.max).toEqual(inch(0.294));
+    expect(r.diameter.min).toEqual(inch(0.84));
+    expect(r.fillet).toEqual({
+      thickness: { min: null, max: null, minExclusive: false, maxExclusive: false },
+      diameter: { min: null, max: null, minExclusive: false, maxExclusive: false },
+    });
+    expect(r.limits.find((l) => l.variable === 'fillet')?.clause).toBe('QW-303.1');
+  });
+
+  it('a fillet test keeps its own limits for fillets', () => {
+    const r = qualifiedRanges(
+      pipe({ weld: 'fillet', position: '5F', outsideDiameter: inch(0.84), progression: 'uphill' }),
+    );
+    expect(r.fillet.diameter).toEqual(r.diameter);
+  });
+});
+
+describe('AWS D1.1 plates over 3/8 in and under 1 in (issue 9 error 6)', () => {
+  const aws = (more: Partial<CouponInput> = {}) => qualifiedRanges(plate({ code: 'aws-d1.1', ...more }));
+
+  it('from memory: AWS D1.1-2015 Table 4.11 — qualifies 1/8 in to 2T', () => {
+    expect(aws({ thickness: inch(0.5) }).thickness).toMatchObject({ min: inch(0.125), max: inch(1) });
+    expect(aws({ thickness: mm(16) }).thickness).toMatchObject({ min: mm(3), max: mm(32) });
+    expect(aws({ thickness: inch(0.375) }).thickness.max).toEqual(inch(0.75));
+  });
+
+  it('from memory: AWS D1.1-2015 Table 4.12 — backing, progression and GMAW-S cite the welder variables table, not a Beadroll default', () => {
+    const r = aws({
+      process: 'GMAW',
+      transferMode: 'short-circuit',
+      fNumber: 6,
+      position: '3G',
+      progression: 'uphill',
+    });
+    for (const variable of ['backing', 'progression', 'transferMode']) {
+      const limit = r.limits.find((l) => l.variable === variable);
+      expect(limit?.clause).toMatch(/^AWS D1\.1 Table 4\.12 \(2015\)/);
+      expect(limit?.source).toBe('from-memory');
+    }
   });
 });

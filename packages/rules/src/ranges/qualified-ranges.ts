@@ -10,7 +10,13 @@ import {
 import { type CodeId } from '../schemas/common.js';
 import { parseInput } from '../validation/parse-input.js';
 import { RulesInputError } from '../validation/rules-input-error.js';
-import { fNumberRow, type Backing, type FNumberQualification } from './f-numbers.js';
+import {
+  asmeFNumberGroups,
+  awsSmawFNumbers,
+  fNumberRow,
+  type Backing,
+  type FNumberQualification,
+} from './f-numbers.js';
 import { positionTables, type PositionRow } from './position-tables.js';
 import { isFilletTest, splitTestPosition, weldingPositions, type WeldingPosition } from './positions.js';
 import { sizeRanges, type Interval, type RangeLimit } from './size-ranges.js';
@@ -23,7 +29,16 @@ export type QualifiedRanges = {
   thickness: Interval;
   /** Smallest pipe OD qualified (and the largest, where the code sets one). */
   diameter: Interval;
+  /** Fillet welds: thickness and diameter qualified (a groove test sets no limit under QW-303.1). */
+  fillet: { thickness: Interval; diameter: Interval };
+  /** Groove positions on pipe of 2-7/8 in to 24 in OD, where a plate test qualifies fewer there than on
+   *  plate and larger pipe (ASME QW-461.9); null = the groove positions above apply to every pipe. */
+  grooveOnPipeUpTo24: WeldingPosition[] | null;
   fNumbers: number[];
+  /** true: the code has no F-No. variable for this process (AWS D1.1 other than SMAW): any F-No. */
+  fNumbersAny: boolean;
+  /** Welded without filler metal (autogenous): qualifies welding without filler metal only (QW-404.14). */
+  withoutFillerOnly: boolean;
   /** The backing allowed with each qualified F-No. */
   fNumberBacking: FNumberQualification[];
   backing: Backing[];
@@ -40,10 +55,10 @@ export const RANGES_NOTICE =
 const CLAUSES: Record<CodeId, { backing: string; fNumber: string; progression: string; transfer: string }> = {
   'asme-ix': { backing: 'QW-402.4', fNumber: 'QW-433', progression: 'QW-405.3', transfer: 'QW-409.2' },
   'aws-d1.1': {
-    backing: 'AWS D1.1 welder essential variables',
-    fNumber: 'AWS D1.1 welder essential variables',
-    progression: 'AWS D1.1 welder essential variables',
-    transfer: 'AWS D1.1 welder essential variables',
+    backing: 'AWS D1.1 Table 4.12 (2015) item (6), backing',
+    fNumber: 'AWS D1.1 Table 4.12 (2015) item (2), Table 4.13',
+    progression: 'AWS D1.1 Table 4.12 (2015) item (5), vertical progression',
+    transfer: 'AWS D1.1 Table 4.12 (2015) item (7), GMAW-S',
   },
   'api-1104': {
     backing: 'API 1104 single qualification',
@@ -61,7 +76,12 @@ const CLAUSES: Record<CodeId, { backing: string; fNumber: string; progression: s
 
 const ordered = (set: Set<WeldingPosition>): WeldingPosition[] => weldingPositions.filter((p) => set.has(p));
 
-type PositionsResult = { groove: WeldingPosition[]; fillet: WeldingPosition[]; limits: RangeLimit[] };
+type PositionsResult = {
+  groove: WeldingPosition[];
+  fillet: WeldingPosition[];
+  grooveOnPipeUpTo24: WeldingPosition[] | null;
+  limits: RangeLimit[];
+};
 
 // A handful of distinct answers, asked for on every keystroke of the coupon form: kept once computed.
 const positionsCache = new Map<string, PositionsResult>();
@@ -73,7 +93,12 @@ function positionsOf(c: Coupon): PositionsResult {
     hit = computePositions(c);
     positionsCache.set(key, hit);
   }
-  return { groove: [...hit.groove], fillet: [...hit.fillet], limits: hit.limits.map((l) => ({ ...l })) };
+  return {
+    groove: [...hit.groove],
+    fillet: [...hit.fillet],
+    grooveOnPipeUpTo24: hit.grooveOnPipeUpTo24 ? [...hit.grooveOnPipeUpTo24] : null,
+    limits: hit.limits.map((l) => ({ ...l })),
+  };
 }
 
 function computePositions(c: Coupon): PositionsResult {
@@ -106,13 +131,18 @@ function computePositions(c: Coupon): PositionsResult {
       source: set.source,
     },
   ];
-  if (c.code === 'asme-ix' && c.form === 'plate' && c.weld === 'groove')
+  let grooveOnPipeUpTo24: WeldingPosition[] | null = null;
+  if (c.code === 'asme-ix' && c.form === 'plate' && c.weld === 'groove') {
+    // pipe of 2-7/8 in to 24 in OD: F only, F and H where a 2G plate is part of the test; plate and pipe
+    // over 24 in OD take the plate positions above
+    grooveOnPipeUpTo24 = splitTestPosition(c.position).includes('2G') ? ['F', 'H'] : ['F'];
     limits.push({
       variable: 'positions',
       clause: 'QW-461.9',
-      text: `On pipe of 2-7/8 in (73 mm) OD and over, this plate test qualifies groove welds in ${g.includes('H') && !g.includes('V') && !g.includes('O') ? 'F and H' : 'F'} only.`,
+      text: `On pipe of 2-7/8 in (73 mm) to 24 in (610 mm) OD this plate test qualifies groove welds in ${grooveOnPipeUpTo24.join(' and ')} only; on plate and on pipe over 24 in OD, in ${g.join(', ')}.`,
       source: 'from-memory',
     });
+  }
   if (c.code === 'iso-9606-1' && c.weld === 'groove')
     limits.push({
       variable: 'positions',
@@ -120,14 +150,20 @@ function computePositions(c: Coupon): PositionsResult {
       text: 'A butt weld test does not qualify fillet welds unless a supplementary fillet weld test is made.',
       source: 'from-memory',
     });
-  return { groove: g, fillet: f, limits };
+  return { groove: g, fillet: f, grooveOnPipeUpTo24, limits };
 }
 
-type FNumbersResult = { fNumbers: number[]; detail: FNumberQualification[]; limit: RangeLimit };
+type FNumbersResult = {
+  fNumbers: number[];
+  detail: FNumberQualification[];
+  any: boolean;
+  withoutFillerOnly: boolean;
+  limit: RangeLimit;
+};
 const fNumbersCache = new Map<string, FNumbersResult>();
 
 function fNumbersOf(c: Coupon, backing: Backing): FNumbersResult {
-  const key = `${c.code}|${c.fNumber ?? ''}|${backing}`;
+  const key = `${c.code}|${c.process}|${c.fNumber ?? ''}|${c.withoutFiller === true}|${backing}`;
   let hit = fNumbersCache.get(key);
   if (!hit) {
     hit = computeFNumbers(c, backing);
@@ -136,16 +172,53 @@ function fNumbersOf(c: Coupon, backing: Backing): FNumbersResult {
   return {
     fNumbers: [...hit.fNumbers],
     detail: hit.detail.map((d) => ({ fNumber: d.fNumber, backing: [...d.backing] })),
+    any: hit.any,
+    withoutFillerOnly: hit.withoutFillerOnly,
     limit: { ...hit.limit },
   };
 }
 
+const byBacking = (backing: Backing): Backing[] => (backing === 'without' ? ['with', 'without'] : ['with']);
+
 function computeFNumbers(c: Coupon, backing: Backing): FNumbersResult {
   const clause = CLAUSES[c.code].fNumber;
+  const none = { any: false, withoutFillerOnly: false };
+  if (c.withoutFiller) {
+    if (c.process !== 'GTAW' && c.process !== 'PAW')
+      throw RulesInputError.field('withoutFiller', 'Only GTAW and PAW are welded without filler metal');
+    if (c.fNumber !== undefined)
+      throw RulesInputError.field('fNumber', 'A coupon welded without filler metal has no F-No.: clear it');
+    return {
+      fNumbers: [],
+      detail: [],
+      any: false,
+      withoutFillerOnly: true,
+      limit: {
+        variable: 'fNumber',
+        clause: c.code === 'asme-ix' ? 'QW-404.14' : clause,
+        text: 'Welded without filler metal (autogenous): qualifies welding without filler metal only.',
+        source: c.code === 'asme-ix' ? 'from-memory' : 'beadroll-default',
+      },
+    };
+  }
+  if (c.code === 'aws-d1.1' && c.process !== 'SMAW')
+    return {
+      fNumbers: c.fNumber === undefined ? [] : [c.fNumber],
+      detail: [],
+      any: true,
+      withoutFillerOnly: false,
+      limit: {
+        variable: 'fNumber',
+        clause,
+        text: `AWS D1.1 has no F-No. variable for ${c.process}: the filler metal group does not limit this qualification.`,
+        source: 'from-memory',
+      },
+    };
   if (c.fNumber === undefined)
     return {
       fNumbers: [],
       detail: [],
+      ...none,
       limit: {
         variable: 'fNumber',
         clause,
@@ -153,11 +226,27 @@ function computeFNumbers(c: Coupon, backing: Backing): FNumbersResult {
         source: 'beadroll-default',
       },
     };
+  if (c.code === 'aws-d1.1') {
+    const down = awsSmawFNumbers[c.fNumber];
+    if (down)
+      return {
+        fNumbers: [...down],
+        detail: down.map((f) => ({ fNumber: f, backing: ['with', 'without'] })),
+        ...none,
+        limit: {
+          variable: 'fNumber',
+          clause,
+          text: `SMAW electrode F${c.fNumber} qualifies ${down.map((f) => `F${f}`).join(', ')}, with or without backing.`,
+          source: 'from-memory',
+        },
+      };
+  }
   const row = c.code === 'asme-ix' ? fNumberRow(c.fNumber, backing) : undefined;
   if (row)
     return {
       fNumbers: row.qualifies.map((q) => q.fNumber),
       detail: row.qualifies,
+      ...none,
       limit: {
         variable: 'fNumber',
         clause,
@@ -165,17 +254,34 @@ function computeFNumbers(c: Coupon, backing: Backing): FNumbersResult {
         source: 'from-memory',
       },
     };
+  const fNo = c.fNumber;
+  const group = c.code === 'asme-ix' ? asmeFNumberGroups.find((g) => g.members.includes(fNo)) : undefined;
+  if (group)
+    return {
+      fNumbers: [...group.members],
+      detail: group.members.map((f) => ({ fNumber: f, backing: byBacking(backing) })),
+      ...none,
+      limit: {
+        variable: 'fNumber',
+        clause,
+        text: `F-No. ${fNo}: ${group.text}; welded ${backing} backing, so ${backing === 'without' ? 'with or without' : 'with'} backing.`,
+        source: 'from-memory',
+      },
+    };
   const why =
     c.code === 'asme-ix'
-      ? `F-No. ${c.fNumber} is outside Beadroll's interchange table (F-No. 1 to 6)`
-      : 'This code groups filler metals its own way and Beadroll has no interchange table for it';
+      ? `F-No. ${fNo} is outside Beadroll's QW-433 tables`
+      : c.code === 'aws-d1.1'
+        ? `SMAW F${fNo} is outside the D1.1 electrode groups F1 to F4`
+        : 'This code groups filler metals its own way and Beadroll has no interchange table for it';
   return {
-    fNumbers: [c.fNumber],
-    detail: [{ fNumber: c.fNumber, backing: backing === 'without' ? ['with', 'without'] : ['with'] }],
+    fNumbers: [fNo],
+    detail: [{ fNumber: fNo, backing: byBacking(backing) }],
+    ...none,
     limit: {
       variable: 'fNumber',
       clause,
-      text: `${why}: the F-No. tested (${c.fNumber}) only.`,
+      text: `${why}: the F-No. tested (${fNo}) only.`,
       source: 'beadroll-default',
     },
   };
@@ -183,7 +289,7 @@ function computeFNumbers(c: Coupon, backing: Backing): FNumbersResult {
 
 function backingOf(c: Coupon): { backing: Backing[]; limit: RangeLimit } {
   const clause = CLAUSES[c.code].backing;
-  const source = c.code === 'asme-ix' || c.code === 'iso-9606-1' ? 'from-memory' : 'beadroll-default';
+  const source = c.code === 'api-1104' ? 'beadroll-default' : 'from-memory';
   const adopted =
     source === 'beadroll-default' ? ' (the ASME QW-402.4 rule, applied by Beadroll to this code)' : '';
   if (c.weld === 'fillet')
@@ -256,7 +362,7 @@ function transferOf(c: Coupon): { transferModes: TransferMode[] | null; limit: R
       'GMAW: choose the transfer mode used (spray, globular, pulse or short-circuit)',
     );
   const clause = CLAUSES[c.code].transfer;
-  const source = c.code === 'asme-ix' ? 'from-memory' : 'beadroll-default';
+  const source = c.code === 'asme-ix' || c.code === 'aws-d1.1' ? 'from-memory' : 'beadroll-default';
   return c.transferMode === 'short-circuit'
     ? {
         transferModes: ['short-circuit'],
@@ -298,7 +404,11 @@ export function qualifiedRanges(input: CouponInput): QualifiedRanges {
     positions: { groove: positions.groove, fillet: positions.fillet },
     thickness: sizes.thickness,
     diameter: sizes.diameter,
+    fillet: sizes.fillet,
+    grooveOnPipeUpTo24: positions.grooveOnPipeUpTo24,
     fNumbers: f.fNumbers,
+    fNumbersAny: f.any,
+    withoutFillerOnly: f.withoutFillerOnly,
     fNumberBacking: f.detail,
     backing: backing.backing,
     progression: progression.progression,

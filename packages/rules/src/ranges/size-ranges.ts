@@ -21,7 +21,13 @@ export type Interval = {
   minExclusive: boolean;
   maxExclusive: boolean;
 };
-export type SizeRanges = { thickness: Interval; diameter: Interval; limits: RangeLimit[] };
+/** fillet: what the coupon qualifies for fillet welds (a groove test: no limit under QW-303.1). */
+export type SizeRanges = {
+  thickness: Interval;
+  diameter: Interval;
+  fillet: { thickness: Interval; diameter: Interval };
+  limits: RangeLimit[];
+};
 
 const interval = (
   min: Length | null,
@@ -111,7 +117,19 @@ function asmeIx(c: Coupon): SizeRanges {
   }
   const { diameter, limit } = asmeDiameter(c);
   limits.push(limit);
-  return { thickness, diameter, limits };
+  if (c.weld === 'fillet') return { thickness, diameter, fillet: { thickness, diameter }, limits };
+  limits.push({
+    variable: 'fillet',
+    clause: 'QW-303.1',
+    text: 'Fillet welds: a groove test qualifies fillet welds in all base metal thicknesses, fillet sizes and pipe diameters (the groove limits above do not apply to them).',
+    source: 'from-memory',
+  });
+  return {
+    thickness,
+    diameter,
+    fillet: { thickness: interval(null, null), diameter: interval(null, null) },
+    limits,
+  };
 }
 
 function asmeDiameter(c: Coupon): { diameter: Interval; limit: RangeLimit } {
@@ -189,9 +207,11 @@ function awsD11(c: Coupon): SizeRanges {
             text: `Pipe fillet test: pipe of the size tested (${fmt(requireOd(c))}) and over.`,
             source: 'beadroll-default' as const,
           };
+    const filletThickness = interval(dualAs(IN_1_8, u), null);
     return {
-      thickness: interval(dualAs(IN_1_8, u), null),
+      thickness: filletThickness,
       diameter: diameter.d,
+      fillet: { thickness: filletThickness, diameter: diameter.d },
       limits: [
         {
           variable: 'thickness',
@@ -211,13 +231,24 @@ function awsD11(c: Coupon): SizeRanges {
         'AWS D1.1 groove test plates are 3/8 in (10 mm) or 1 in (25 mm) thick',
       );
     const unlimited = !below(T, IN_1);
+    // 3/8 in plate: 1/8 in to 3/4 in; over 3/8 in and under 1 in: 1/8 in to 2T; 1 in: no upper limit
+    const atThreeEighths = !exceeds(T.value, limitIn(IN_3_8, u));
+    const max = unlimited ? null : atThreeEighths ? dualAs(IN_3_4, u) : times(T, 2);
     const limits: RangeLimit[] = [
       {
         variable: 'thickness',
         clause: AWS_TABLE,
         text: unlimited
           ? `A test plate of ${fmt(T)} (1 in, 25 mm, or more) qualifies 1/8 in (3 mm) and over, no upper limit.`
-          : `A test plate of ${fmt(T)} qualifies 1/8 in (3 mm) to 3/4 in (20 mm), the range of the 3/8 in (10 mm) test plate.`,
+          : atThreeEighths
+            ? `A test plate of ${fmt(T)} (the 3/8 in, 10 mm, test plate) qualifies 1/8 in (3 mm) to 3/4 in (20 mm).`
+            : `A test plate of ${fmt(T)} (over 3/8 in, under 1 in) qualifies 1/8 in (3 mm) to 2T = ${fmt(times(T, 2))}.`,
+        source: 'from-memory',
+      },
+      {
+        variable: 'fillet',
+        clause: AWS_TABLE,
+        text: 'Fillet welds: a groove test qualifies fillet welds on 1/8 in (3 mm) and thicker base metal, no upper limit.',
         source: 'from-memory',
       },
       {
@@ -227,9 +258,11 @@ function awsD11(c: Coupon): SizeRanges {
         source: 'from-memory',
       },
     ];
+    const diameter = interval(dualAs(IN_24, u), null);
     return {
-      thickness: interval(dualAs(IN_1_8, u), unlimited ? null : dualAs(IN_3_4, u)),
-      diameter: interval(dualAs(IN_24, u), null),
+      thickness: interval(dualAs(IN_1_8, u), max),
+      diameter,
+      fillet: { thickness: interval(dualAs(IN_1_8, u), null), diameter },
       limits,
     };
   }
@@ -243,7 +276,7 @@ function awsD11(c: Coupon): SizeRanges {
       'For AWS D1.1 pipe tests Beadroll computes ranges for the standard test pipes only (NPS 2 Sch 80, NPS 3 Sch 40, NPS 6 Sch 120, NPS 8 Sch 80); record a job-size test range from the code',
     );
   const name = `NPS ${std.nps} Sch ${std.schedule}`;
-  return std.small
+  const sized: Omit<SizeRanges, 'fillet'> = std.small
     ? {
         thickness: interval(dualAs(IN_1_8, u), dualAs(IN_3_4, u)),
         diameter: interval(dualAs({ in: 3 / 4, mm: 20 }, od.unit), dualAs(IN_4, od.unit)),
@@ -280,6 +313,19 @@ function awsD11(c: Coupon): SizeRanges {
           },
         ],
       };
+  return {
+    ...sized,
+    fillet: { thickness: interval(dualAs(IN_1_8, u), null), diameter: sized.diameter },
+    limits: [
+      ...sized.limits,
+      {
+        variable: 'fillet',
+        clause: AWS_TABLE,
+        text: 'Fillet welds: 1/8 in (3 mm) and thicker base metal, no upper limit; the diameter range of the groove test.',
+        source: 'from-memory',
+      },
+    ],
+  };
 }
 
 // ---- API 1104 ---------------------------------------------------------------------------------------
@@ -324,6 +370,7 @@ function api1104(c: Coupon): SizeRanges {
   return {
     thickness: wall.range,
     diameter: od.range,
+    fillet: { thickness: wall.range, diameter: od.range },
     limits: [
       { variable: 'thickness', clause: API_SINGLE, text: wall.text, source: 'from-memory' },
       { variable: 'diameter', clause: API_SINGLE, text: od.text, source: 'from-memory' },
@@ -380,6 +427,7 @@ function iso96061(c: Coupon): SizeRanges {
   return {
     thickness,
     diameter,
+    fillet: { thickness, diameter },
     limits: [
       { variable: 'thickness', clause: ISO_DIMENSIONS, text: thicknessText, source: 'from-memory' },
       { variable: 'diameter', clause: ISO_DIMENSIONS, text: diameterText, source: 'from-memory' },
