@@ -23,7 +23,7 @@ import { proceduresRouter } from './procedures/procedures.router.js';
 import { couponsRouter } from './coupons/coupons.router.js';
 import { qualificationsRouter, welderCardRouter } from './qualifications/qualifications.router.js';
 import { verifyRouter, verifyTokenRouter } from './verify/verify.router.js';
-import { continuityRouter, welderTimelineRouter } from './continuity/continuity.router.js';
+import { continuityRouter, gridSaveBodyParser, welderTimelineRouter } from './continuity/continuity.router.js';
 import { settingsRouter } from './settings/settings.router.js';
 import { lapseWatchRouter } from './lapse-watch/lapse-watch.router.js';
 import { overviewRouter } from './overview/overview.router.js';
@@ -84,6 +84,8 @@ export function createApp(opts: CreateAppOptions): Express {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
+  // A big shop's month save (up to the schema's 2,000 cells) needs more than the app-wide limit.
+  api.put('/continuity/grid', gridSaveBodyParser);
   api.use(express.json({ limit: JSON_LIMIT }));
   api.use(refuseUnsafeText);
   api.use(auth.initialize);

@@ -27,12 +27,20 @@ function prng(seed: number) {
   };
 }
 
+/** A piece of evidence as written: a passing coupon (of a code, certified or not) or logged use. */
+type Written = { date: string; kind: 'coupon'; code: string; certified: boolean } | { date: string; kind: 'use' };
+
 interface History {
   welder: WelderRow;
   process: string;
   quals: { code: string; testedOn: string; revokedOn?: string; id?: string }[];
-  evidence: ContinuityEvidence[];
+  written: Written[];
 }
+
+/** The evidence of one (welder, process, code) pair (TRADE.md §9): a certified coupon of the code is a
+ *  test, any other passing coupon of the process is use, logged use is use. */
+const evidenceFor = (h: History, code: string): ContinuityEvidence[] =>
+  h.written.map((e) => ({ date: e.date, kind: e.kind === 'coupon' && e.certified && e.code === code ? 'test' : 'use' }));
 
 const SEED = 20251204;
 const HISTORIES = 300;
@@ -58,22 +66,22 @@ describe('continuity: stored state, full recompute and continuityStatus agree', 
       const welder = await makeWelder(ds, org, shops[i % 2]!, { stamp: `R-${i}` });
       const process = pick(['SMAW', 'GTAW']);
       const start = addDays('2019-01-01', Math.floor(rnd() * 900));
-      const h: History = { welder, process, quals: [], evidence: [] };
+      const h: History = { welder, process, quals: [], written: [] };
       h.quals.push({ code: pick(codeIds), testedOn: start });
       // A second code on the same process shares the evidence.
       if (rnd() < 0.2) h.quals.push({ code: pick(codeIds.filter((c) => c !== h.quals[0]!.code)), testedOn: addDays(start, Math.floor(rnd() * 200)) });
       if (rnd() < 0.1) h.quals[0]!.revokedOn = addDays(start, 100 + Math.floor(rnd() * 900));
       await makeTest(ds, { org, shop: shops[0]!, welder, procedureId: wps, certifiedBy: qa, code: h.quals[0]!.code, process, testedOn: start, certify: true, ...(h.quals[0]!.revokedOn ? { revokedOn: h.quals[0]!.revokedOn } : {}) });
-      h.evidence.push({ date: start, kind: 'test' });
+      h.written.push({ date: start, kind: 'coupon', code: h.quals[0]!.code, certified: true });
       if (h.quals[1]) {
         await makeTest(ds, { org, shop: shops[0]!, welder, procedureId: wps, certifiedBy: qa, code: h.quals[1].code, process, testedOn: h.quals[1].testedOn, certify: true });
-        h.evidence.push({ date: h.quals[1].testedOn, kind: 'test' });
+        h.written.push({ date: h.quals[1].testedOn, kind: 'coupon', code: h.quals[1].code, certified: true });
       }
       // Back-dated use before the qualification: never counts.
       if (rnd() < 0.15) {
         const d = addDays(start, -20 - Math.floor(rnd() * 60));
         await makeUse(ds, { org, shop: shops[1]!, welder, process, usedOn: d });
-        h.evidence.push({ date: d, kind: 'use' });
+        h.written.push({ date: d, kind: 'use' });
       }
       const used = new Set<string>();
       let month = addMonths(`${start.slice(0, 7)}-01`, 1);
@@ -86,14 +94,17 @@ describe('continuity: stored state, full recompute and continuityStatus agree', 
             used.add(key);
             const d = addDays(month, Math.floor(rnd() * 28));
             await makeUse(ds, { org, shop, welder, process, usedOn: d });
-            h.evidence.push({ date: d, kind: 'use' });
+            h.written.push({ date: d, kind: 'use' });
           }
         } else if (r < 0.6) {
           const d = addDays(month, Math.floor(rnd() * 28));
-          await makeTest(ds, { org, shop: shops[0]!, welder, procedureId: wps, certifiedBy: qa, code: h.quals[0]!.code, process, testedOn: d, result: rnd() < 0.85 ? 'accept' : 'reject' }).then(async ({ couponId }) => {
-            const [{ result }] = await ds.query<{ result: string }[]>(`SELECT result FROM coupons WHERE id = $1`, [couponId]) as [{ result: string }];
-            if (result === 'accept') h.evidence.push({ date: d, kind: 'test' });
-          });
+          // Some coupons pass and are certified (a test of their code), some pass uncertified or under
+          // another code (use of the process), some fail (nothing).
+          const code = rnd() < 0.7 ? h.quals[0]!.code : pick(codeIds);
+          const result = rnd() < 0.85 ? 'accept' : 'reject';
+          const certified = result === 'accept' && rnd() < 0.6;
+          await makeTest(ds, { org, shop: shops[0]!, welder, procedureId: wps, certifiedBy: qa, code, process, testedOn: d, result, certify: certified });
+          if (result === 'accept') h.written.push({ date: d, kind: 'coupon', code, certified });
         }
         // Gaps over six months now and then.
         month = addMonths(month, rnd() < 0.08 ? 7 + Math.floor(rnd() * 6) : 1 + Math.floor(rnd() * 3));
@@ -122,7 +133,11 @@ describe('continuity: stored state, full recompute and continuityStatus agree', 
         const h = byWelder.get(q.welderId)!;
         const pair = recomputed.get(key(q))!;
         if (asOf < pair.qualifiedOn) continue;
-        const rules = continuityStatus({ code: q.code as (typeof codeIds)[number], qualifiedOn: pair.qualifiedOn, evidence: h.evidence, asOf });
+        const evidence = evidenceFor(h, q.code);
+        // The pair is revoked when every qualification of it is (the latest date): from memory: QW-322.1(b).
+        const same = ids.filter((o) => o.welderId === q.welderId && o.process === q.process && o.code === q.code);
+        const pairRevokedOn = same.every((o) => o.revokedOn) ? same.map((o) => o.revokedOn!).sort().at(-1) : undefined;
+        const rules = continuityStatus({ code: q.code as (typeof codeIds)[number], qualifiedOn: pair.qualifiedOn, evidence, asOf, ...(pairRevokedOn ? { revokedOn: pairRevokedOn } : {}) });
         const check = (s: RecomputedState, what: string) => {
           // Pair level: the window walk equals the rules function's, field by field.
           expect({ what, lastEvidence: s.lastEvidence, lastTest: s.lastTest, lapsesOn: s.lapsesOn, ignored: s.ignored, renewedOn: s.renewedOn }).toEqual({
@@ -134,7 +149,7 @@ describe('continuity: stored state, full recompute and continuityStatus agree', 
             renewedOn: rules.renewedOn.at(-1) ?? null,
           });
           // Qualification level: the one status function, with revocation (from memory: QW-322.1(b)).
-          const withRevocation = continuityStatus({ code: q.code as (typeof codeIds)[number], qualifiedOn: pair.qualifiedOn, evidence: h.evidence, asOf, ...(q.revokedOn ? { revokedOn: q.revokedOn } : {}) });
+          const withRevocation = continuityStatus({ code: q.code as (typeof codeIds)[number], qualifiedOn: pair.qualifiedOn, evidence, asOf, ...(q.revokedOn ? { revokedOn: q.revokedOn } : {}) });
           const mine = qualificationStatus({ qualifiedOn: pair.qualifiedOn, revokedOn: q.revokedOn, stateLapsesOn: s.lapsesOn, stateLastEvidence: s.lastEvidence, warnDays: 30 }, asOf);
           expect(mine.state, `${what} ${q.id} ${asOf}`).toBe(withRevocation.state);
           // Once revoked, the rules ignore later evidence of this record, while the pair's other
@@ -144,7 +159,7 @@ describe('continuity: stored state, full recompute and continuityStatus agree', 
         };
         check(pair, 'recompute');
         compared++;
-        const latest = h.evidence.reduce((m, e) => (e.date > m ? e.date : m), '0000');
+        const latest = h.written.reduce((m, e) => (e.date > m ? e.date : m), '0000');
         if (asOf >= latest) {
           check(stored.get(key(q))!, 'stored');
           storedCompared++;

@@ -70,7 +70,7 @@ describe('continuity log (PUT/GET /api/continuity/grid)', () => {
     expect(saved.rows[0]!.cells.SMAW).toMatchObject({ usedOn, jobReference: 'J-4411', flaggedLapsed: false, version: 1 });
     // from memory: QW-322.1(a): use extends the window to six calendar months after it.
     expect(await state(w.a1.id, 'SMAW')).toEqual({ lastEvidence: usedOn, lapsesOn: addMonths(usedOn, 6) });
-    await w.foreman.put('/api/continuity/grid').send({ shopId: w.shopA.id, month, cells: [{ welderId: w.a1.id, process: 'SMAW', usedOn, jobReference: 'J-4412', note: 'crane rails' }] }).expect(200);
+    await w.foreman.put('/api/continuity/grid').send({ shopId: w.shopA.id, month, cells: [{ welderId: w.a1.id, process: 'SMAW', usedOn, jobReference: 'J-4412', note: 'crane rails', version: 1 }] }).expect(200);
     const rows = await entries(w.a1.id);
     expect(rows).toHaveLength(1);
     expect(rows[0]!.job).toBe('J-4412');
@@ -78,21 +78,22 @@ describe('continuity log (PUT/GET /api/continuity/grid)', () => {
     expect(audit.map((a) => a.action)).toEqual(['continuity-entry.created', 'continuity-entry.updated']);
     expect(audit[1]).toMatchObject({ entityType: 'continuity-entry', before: { jobReference: 'J-4411' }, after: { jobReference: 'J-4412', note: 'crane rails' } });
     // Removing the cell restores the state to the test alone, audited.
-    await w.foreman.put('/api/continuity/grid').send({ shopId: w.shopA.id, month, remove: [{ welderId: w.a1.id, process: 'SMAW' }] }).expect(200);
+    await w.foreman.put('/api/continuity/grid').send({ shopId: w.shopA.id, month, remove: [{ welderId: w.a1.id, process: 'SMAW', version: 2 }] }).expect(200);
     expect(await entries(w.a1.id)).toHaveLength(0);
     expect((await state(w.a1.id, 'SMAW'))!.lastEvidence).toBe(daysAgo(60));
     expect((await auditRows(api.ds, rows[0]!.id)).map((a) => a.action).at(-1)).toBe('continuity-entry.removed');
   });
 
-  it('two saves of the same cell at the same moment end with one row', async () => {
+  it('two saves of the same empty cell at the same moment: one is saved, the other is told who won (409)', async () => {
     const w = await world();
     const month = thisMonth();
     const body = (job: string) => ({ shopId: w.shopA.id, month, cells: [{ welderId: w.a1.id, process: 'SMAW', usedOn: `${month}-01`, jobReference: job }] });
     const [r1, r2] = await Promise.all([w.foreman.put('/api/continuity/grid').send(body('J-1')), w.qa.put('/api/continuity/grid').send(body('J-2'))]);
-    expect([r1.status, r2.status]).toEqual([200, 200]);
+    expect([r1.status, r2.status].sort()).toEqual([200, 409]);
     const rows = await entries(w.a1.id);
     expect(rows).toHaveLength(1);
-    expect(['J-1', 'J-2']).toContain(rows[0]!.job);
+    const lost = r1.status === 409 ? r1 : r2;
+    expect(errorOf(lost).fields?.['cells.0.version']).toMatch(new RegExp(`^A-01 SMAW was changed by .* now job ${rows[0]!.job}`));
   });
 
   it('counts use logged in another shop: continuity is per welder and process across the company', async () => {
@@ -127,7 +128,7 @@ describe('continuity log (PUT/GET /api/continuity/grid)', () => {
     expect(smaw?.events.map((x) => x.kind)).toEqual(['test', 'lapse', 'use', 'flag']);
   });
 
-  it('renews every lapsed qualification of the process after a passing coupon, not the revoked one; the timeline shows it', async () => {
+  it('a passing coupon renews its own code only once certified, never the revoked one; the timeline shows it', async () => {
     const w = await world(400);
     // A second, revoked SMAW qualification (other code) of the same welder.
     const revoked = await makeTest(api.ds, { org: w.org, shop: w.shopA, welder: w.a1, procedureId: w.wps, certifiedBy: w.qaUser, code: 'aws-d1.1', process: 'SMAW', testedOn: daysAgo(390), certify: true });
@@ -135,6 +136,9 @@ describe('continuity log (PUT/GET /api/continuity/grid)', () => {
     const wps = await makeProcedure(api.ds, w.org, { number: 'R-1' });
     const c = bodyOf(couponRecordSchema, await w.qa.post('/api/coupons').send(couponBody({ welderId: w.a1.id, shopId: w.shopA.id, procedureId: wps.id }, { testedOn: daysAgo(5) })).expect(201));
     expect(c.result).toBe('accept');
+    // Saved but not certified: at most use, and use after the lapse revives nothing (TRADE.md §9).
+    expect(bodyOf(qualificationSchema, await w.qa.get(`/api/qualifications/${w.qA}`).expect(200)).status.state).toBe('lapsed');
+    await w.qa.post(`/api/coupons/${c.id}/certify`).send({ certifiedOn: today(), version: c.version }).expect(201);
     const q = bodyOf(qualificationSchema, await w.qa.get(`/api/qualifications/${w.qA}`).expect(200));
     // from memory: QW-322.2(a): a passing test after the lapse renews; ranges unchanged.
     expect(q.status).toMatchObject({ state: 'current', lapsesOn: addMonths(daysAgo(5), 6), lastEvidence: daysAgo(5) });
@@ -143,7 +147,8 @@ describe('continuity log (PUT/GET /api/continuity/grid)', () => {
     expect(s!.renewedOn).toBe(daysAgo(5));
     const tl = typed<Timeline>(await w.qa.get(`/api/welders/${w.a1.id}/timeline`).expect(200));
     const asme = tl.processes.find((p) => p.code === 'asme-ix');
-    expect(asme?.events.map((x) => x.kind)).toEqual(['test', 'test', 'lapse', 'test', 'renewal']); // the revoked record's coupon is a SMAW test too
+    // The revoked AWS record's coupon is SMAW use for the ASME pair, not an ASME test.
+    expect(asme?.events.map((x) => x.kind)).toEqual(['test', 'use', 'lapse', 'test', 'renewal']);
     const aws = tl.processes.find((p) => p.code === 'aws-d1.1');
     expect(aws?.state).toBe('revoked');
     expect(aws?.events.map((x) => x.kind)).toContain('revocation');

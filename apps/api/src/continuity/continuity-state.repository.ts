@@ -1,15 +1,20 @@
 // The maintained continuity state of each (welder, process, code) pair, and the one set-based walk that
-// computes it. The walk reproduces the rules package's continuityStatus (TRADE.md §6) with window
-// functions: evidence (passing coupons of the welder and process as tests, logged use from every shop)
-// in date order, a test before a use on the same day; a use counts while it comes before the lapse date
-// computed from the previous evidence; once a gap reaches the lapse date every later use is ignored until
-// the next passing test, which renews the pair. The lapse date of each code is the rules package's own
-// PostgreSQL expression (lapseRules[code].sql), so the SQL and the function cannot drift apart on the
-// calendar arithmetic.
+// computes it. The walk reproduces the rules package's continuityStatus (TRADE.md §6, §9) with window
+// functions. Evidence per code (DEVELOPERS.md "What counts as evidence"): a certified passing coupon of
+// the pair's own code is a test; any other passing coupon of the process (another code, or not yet
+// certified) and every logged use from any shop are use. In date order, a test before a use on the same
+// day; a use counts while it comes before the lapse date computed from the previous evidence; once a gap
+// reaches the lapse date every later use is ignored (and flagged) until the next test, which renews the
+// pair. Revocation is applied inside the walk: when every qualification of the pair in force (not
+// superseded) is revoked, the pair's revocation date is the latest of them; evidence on or after it
+// counts for nothing (use is flagged) and the pair lapses on it at the latest, so every reader of
+// lapses_on (lapse scan, Overview, soonest lapse, grid) sees a future-dated revocation the same way.
+// The lapse date of each code is the rules package's own PostgreSQL expression (lapseRules[code].sql),
+// so the SQL and the function cannot drift apart on the calendar arithmetic.
 //
 // A pair exists for every code and process the welder holds a certified qualification for (superseded
 // and revoked ones too, so every qualification has a state); its qualification date is the earliest test
-// date of those qualifications. Revocation is per qualification and applied when the status is read.
+// date of those qualifications.
 import type { EntityManager } from 'typeorm';
 import { codeIds, DEFAULT_COMPANY_SETTINGS, lapseRules } from '@beadroll/rules';
 
@@ -38,28 +43,34 @@ export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
   const f = (last: string, lastTest: string) => lapsesOnSql('code', last, lastTest);
   return `
   pairs AS (
-    SELECT q.organization_id, q.welder_id, q.process, q.code, min(c.tested_on) AS qualified_on
+    SELECT q.organization_id, q.welder_id, q.process, q.code, min(c.tested_on) AS qualified_on,
+           CASE WHEN bool_and(q.revoked_on IS NOT NULL) FILTER (WHERE q.superseded_by_id IS NULL)
+                THEN max(q.revoked_on) FILTER (WHERE q.superseded_by_id IS NULL) END AS revoked_on
       FROM qualifications q JOIN coupons c ON c.id = q.coupon_id
      WHERE true ${pairFilter}
      GROUP BY q.organization_id, q.welder_id, q.process, q.code
   ),
   ev AS (
-    SELECT p.welder_id, p.process, p.code, p.qualified_on, c.tested_on AS d, 0 AS k, NULL::uuid AS entry_id
+    -- Passing coupons of the process: a test of the pair when certified under its code, else use.
+    SELECT p.welder_id, p.process, p.code, p.qualified_on, p.revoked_on, c.tested_on AS d,
+           CASE WHEN c.code = p.code AND EXISTS (SELECT 1 FROM qualifications t WHERE t.coupon_id = c.id)
+                THEN 0 ELSE 1 END AS k,
+           NULL::uuid AS entry_id
       FROM pairs p
       JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept' ${cut('c.tested_on')}
     UNION ALL
-    SELECT p.welder_id, p.process, p.code, p.qualified_on, e.used_on, 1, e.id
+    SELECT p.welder_id, p.process, p.code, p.qualified_on, p.revoked_on, e.used_on, 1, e.id
       FROM pairs p
       JOIN continuity_entries e ON e.welder_id = p.welder_id AND e.process = p.process ${cut('e.used_on')}
   ),
   w1 AS (
-    SELECT ev.*, ev.d < ev.qualified_on AS pre,
-           row_number() OVER w AS rn,
+    -- pre: outside the pair's life (before the qualification, or on or after its revocation).
+    SELECT ev.*, row_number() OVER w AS rn,
            lag(ev.d, 1, ev.qualified_on) OVER w AS prev,
            coalesce(max(ev.d) FILTER (WHERE ev.k = 0) OVER (w ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING),
                     ev.qualified_on) AS test_before
-      FROM ev
-    WINDOW w AS (PARTITION BY ev.welder_id, ev.process, ev.code, ev.d < ev.qualified_on ORDER BY ev.d, ev.k)
+      FROM (SELECT ev.*, (ev.d < ev.qualified_on OR coalesce(ev.d >= ev.revoked_on, false)) AS pre FROM ev) ev
+    WINDOW w AS (PARTITION BY ev.welder_id, ev.process, ev.code, ev.pre ORDER BY ev.d, ev.k)
   ),
   w2 AS (
     SELECT w1.*, ${f('w1.prev', 'w1.test_before')} AS lapse_if_gap,
@@ -93,14 +104,14 @@ export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
       FROM walk GROUP BY welder_id, process, code
   ),
   computed0 AS (
-    SELECT p.organization_id, p.welder_id, p.process, p.code, p.qualified_on,
+    SELECT p.organization_id, p.welder_id, p.process, p.code, p.qualified_on, p.revoked_on,
            coalesce(a.last_evidence, p.qualified_on) AS last_evidence,
            coalesce(a.last_test, p.qualified_on) AS last_test,
            a.renewed_on, coalesce(a.ignored, '{}'::date[]) AS ignored
       FROM pairs p LEFT JOIN agg a USING (welder_id, process, code)
   ),
   computed AS (
-    SELECT c.*, ${f('c.last_evidence', 'c.last_test')} AS lapses_on FROM computed0 c
+    SELECT c.*, least(${f('c.last_evidence', 'c.last_test')}, c.revoked_on) AS lapses_on FROM computed0 c
   )`;
 }
 
@@ -113,9 +124,9 @@ export interface PairKey {
 const flagSql = (entryFilter: string) => `
   UPDATE continuity_entries e
      SET flagged_lapsed = f.flag,
-         review_status = CASE WHEN f.flag AND e.review_status IS NULL THEN 'pending'
-                              WHEN NOT f.flag AND e.review_status = 'pending' THEN NULL
-                              ELSE e.review_status END
+         -- A newly flagged entry waits for review even if an earlier flag of it was reviewed: the review
+         -- was of other facts. An entry no longer flagged has nothing to review.
+         review_status = CASE WHEN f.flag THEN 'pending' END
     FROM (SELECT x.id, EXISTS (SELECT 1 FROM continuity_states s
                                 WHERE s.welder_id = x.welder_id AND s.process = x.process
                                   AND x.used_on >= s.qualified_on AND x.used_on = ANY (s.ignored)) AS flag
@@ -140,15 +151,17 @@ const upsertStatesSql = `
 
 /**
  * welders.soonest_lapses_on of the welders matching `welderFilter` (on `u.welder_id`, from `source`): the
- * soonest lapsesOn among their qualifications in force (not superseded, not revoked) — the Welders list's
- * sort key, kept with the states.
+ * soonest effective lapse date (qualificationLapsesOnSql: the pair's lapsesOn, at most the qualification's
+ * own revocation, past or future) among their qualifications not superseded — the Welders list's sort key,
+ * kept with the states. Callers hold the welders' continuity lock (lockPairs), so the minimum is taken
+ * from a snapshot that includes every other refresh of the welder.
  */
 const soonestLapseSql = (source: string) => `
   UPDATE welders w SET soonest_lapses_on = x.m
     FROM (SELECT u.welder_id,
-                 (SELECT min(cs.lapses_on) FROM qualifications q
+                 (SELECT min(least(cs.lapses_on, q.revoked_on)) FROM qualifications q
                     JOIN continuity_states cs ON cs.welder_id = q.welder_id AND cs.process = q.process AND cs.code = q.code
-                   WHERE q.welder_id = u.welder_id AND q.superseded_by_id IS NULL AND q.revoked_on IS NULL) AS m
+                   WHERE q.welder_id = u.welder_id AND q.superseded_by_id IS NULL) AS m
             FROM ${source}) x
    WHERE w.id = x.welder_id AND w.soonest_lapses_on IS DISTINCT FROM x.m`;
 
@@ -295,16 +308,20 @@ const stateColumns = (a: string) => `
   to_char(${a}.renewed_on, 'YYYY-MM-DD') AS "renewedOn",
   ARRAY(SELECT to_char(x, 'YYYY-MM-DD') FROM unnest(${a}.ignored) WITH ORDINALITY AS u(x, n) ORDER BY n) AS ignored`;
 
-/** The full recompute of every pair (of one company, or all) as of a date (default: all evidence). */
+/** The full recompute of every pair (of one company or welder, or all) as of a date (default: all evidence). */
 export async function recomputeAll(
   manager: EntityManager,
-  opts: { organizationId?: string; asOf?: string } = {},
+  opts: { organizationId?: string; welderId?: string; asOf?: string } = {},
 ): Promise<RecomputedState[]> {
   const params: string[] = [];
   let pairFilter = '';
   if (opts.organizationId) {
     params.push(opts.organizationId);
     pairFilter = `AND q.organization_id = $${params.length}`;
+  }
+  if (opts.welderId) {
+    params.push(opts.welderId);
+    pairFilter += ` AND q.welder_id = $${params.length}`;
   }
   let asOf: string | undefined;
   if (opts.asOf) {
@@ -338,6 +355,49 @@ export async function differingStates(
             IS DISTINCT FROM
             (s.qualified_on, s.last_evidence, s.last_test, s.lapses_on, s.renewed_on, s.ignored, s.organization_id)
       ORDER BY 1, 2, 3`,
+  );
+}
+
+/** Welders whose stored soonest_lapses_on differs from the one the full recompute gives. */
+export async function differingSoonest(
+  manager: EntityManager,
+): Promise<{ welderId: string; stored: string | null; recomputed: string | null }[]> {
+  return manager.query(
+    `WITH ${walkCtes()},
+     soonest AS (
+       SELECT q.welder_id, min(least(c.lapses_on, q.revoked_on)) AS m
+         FROM qualifications q JOIN computed c ON (c.welder_id, c.process, c.code) = (q.welder_id, q.process, q.code)
+        WHERE q.superseded_by_id IS NULL GROUP BY q.welder_id
+     )
+     SELECT w.id AS "welderId", to_char(w.soonest_lapses_on, 'YYYY-MM-DD') AS stored,
+            to_char(x.m, 'YYYY-MM-DD') AS recomputed
+       FROM welders w LEFT JOIN soonest x ON x.welder_id = w.id
+      WHERE w.soonest_lapses_on IS DISTINCT FROM x.m ORDER BY 1`,
+  );
+}
+
+/**
+ * Logged use whose review flag differs from the full recompute: flagged when (and only when) some pair of
+ * its welder and process ignored its date on or after the qualification date; a flagged entry waits for
+ * review or has been reviewed, an unflagged one has no review status.
+ */
+export async function differingFlags(
+  manager: EntityManager,
+): Promise<{ entryId: string; flaggedLapsed: boolean; reviewStatus: string | null; recomputedFlag: boolean }[]> {
+  return manager.query(
+    `WITH ${walkCtes()},
+     expected AS (
+       SELECT DISTINCT e.id FROM continuity_entries e
+         JOIN computed c ON c.welder_id = e.welder_id AND c.process = e.process
+        WHERE e.used_on >= c.qualified_on AND e.used_on = ANY (c.ignored)
+     )
+     SELECT e.id AS "entryId", e.flagged_lapsed AS "flaggedLapsed", e.review_status AS "reviewStatus",
+            x.id IS NOT NULL AS "recomputedFlag"
+       FROM continuity_entries e LEFT JOIN expected x ON x.id = e.id
+      WHERE e.flagged_lapsed IS DISTINCT FROM (x.id IS NOT NULL)
+         OR (e.flagged_lapsed AND e.review_status IS NULL)
+         OR (NOT e.flagged_lapsed AND e.review_status IS NOT NULL)
+      ORDER BY 1`,
   );
 }
 

@@ -4,6 +4,8 @@ import type { EntityManager } from 'typeorm';
 
 export interface GridCell {
   entryId: string;
+  loggedBy: string | null;
+  updatedAt: string;
   usedOn: string;
   jobReference: string;
   note: string;
@@ -14,6 +16,7 @@ export interface GridRowRaw {
   welder: { id: string; stamp: string; name: string; homeShopId: string };
   home: boolean;
   qualifiedProcesses: string[];
+  pairs: { process: string; code: string; lapsesOn: string; revokedOn: string | null }[];
   entries: (GridCell & { process: string })[];
 }
 
@@ -40,21 +43,33 @@ export async function gridRows(
         WHERE w.organization_id = $1 AND w.id IN (SELECT welder_id FROM month_entries)
      ),
      -- Set-based (one hash aggregate each), not a subquery per row: a big shop's grid has thousands of rows.
-     held AS (
-       SELECT q.welder_id, array_agg(DISTINCT q.process ORDER BY q.process) AS processes
+     -- Each (process, code) pair in force, with its lapse date and its revocation when every qualification
+     -- of it is revoked (the walk's rule); a pair revoked before the month begins offers no cell.
+     pair AS (
+       SELECT q.welder_id, q.process, q.code, cs.lapses_on,
+              CASE WHEN bool_and(q.revoked_on IS NOT NULL) THEN max(q.revoked_on) END AS revoked_on
          FROM qualifications q
-        WHERE q.organization_id = $1 AND q.welder_id IN (SELECT id FROM people)
-          AND q.superseded_by_id IS NULL AND q.revoked_on IS NULL
-        GROUP BY q.welder_id
+         JOIN continuity_states cs ON (cs.welder_id, cs.process, cs.code) = (q.welder_id, q.process, q.code)
+        WHERE q.organization_id = $1 AND q.welder_id IN (SELECT id FROM people) AND q.superseded_by_id IS NULL
+        GROUP BY q.welder_id, q.process, q.code, cs.lapses_on
+     ),
+     held AS (
+       SELECT welder_id,
+              coalesce(array_agg(DISTINCT process ORDER BY process) FILTER (WHERE revoked_on IS NULL OR revoked_on > $3::date), '{}') AS processes,
+              json_agg(json_build_object('process', process, 'code', code, 'lapsesOn', to_char(lapses_on, 'YYYY-MM-DD'),
+                       'revokedOn', to_char(revoked_on, 'YYYY-MM-DD')) ORDER BY process, code) AS pairs
+         FROM pair GROUP BY welder_id
      ),
      logged AS (
        SELECT e.welder_id, json_agg(json_build_object('process', e.process, 'entryId', e.id,
                 'usedOn', to_char(e.used_on, 'YYYY-MM-DD'), 'jobReference', e.job_reference,
-                'note', e.note, 'flaggedLapsed', e.flagged_lapsed, 'version', e.version) ORDER BY e.process) AS entries
-         FROM month_entries e GROUP BY e.welder_id
+                'note', e.note, 'flaggedLapsed', e.flagged_lapsed, 'version', e.version,
+                'loggedBy', u.name, 'updatedAt', e.updated_at) ORDER BY e.process) AS entries
+         FROM month_entries e LEFT JOIN users u ON u.id = e.logged_by GROUP BY e.welder_id
      )
      SELECT json_build_object('id', p.id, 'stamp', p.stamp, 'name', p.name, 'homeShopId', p.home_shop_id) AS welder,
-            p.home, coalesce(h.processes, '{}') AS "qualifiedProcesses", coalesce(l.entries, '[]') AS entries
+            p.home, coalesce(h.processes, '{}') AS "qualifiedProcesses", coalesce(h.pairs, '[]') AS pairs,
+            coalesce(l.entries, '[]') AS entries
        FROM people p LEFT JOIN held h ON h.welder_id = p.id LEFT JOIN logged l ON l.welder_id = p.id
       ORDER BY p.home DESC, p.stamp, p.id`,
     [organizationId, shopId, month],
@@ -101,6 +116,16 @@ export interface EntrySnapshot {
 const snapshotColumns = `id, welder_id AS "welderId", process, to_char(used_on, 'YYYY-MM-DD') AS "usedOn",
   job_reference AS "jobReference", note, version`;
 
+/** Who last wrote each of the given entries, for the message of a stale save. */
+export async function lastWriters(db: EntityManager, ids: string[]) {
+  const rows = await db.query<{ id: string; name: string | null; updatedAt: string }[]>(
+    `SELECT e.id, u.name, to_char(e.updated_at AT TIME ZONE 'UTC', 'YYYY-MM-DD HH24:MI') || ' UTC' AS "updatedAt"
+       FROM continuity_entries e LEFT JOIN users u ON u.id = e.logged_by WHERE e.id = ANY($1::uuid[])`,
+    [ids],
+  );
+  return new Map(rows.map((r) => [r.id, r]));
+}
+
 /** The month's entries of the shop, locked for the save. */
 export async function lockMonthEntries(db: EntityManager, organizationId: string, shopId: string, month: string) {
   return db.query<EntrySnapshot[]>(
@@ -129,7 +154,10 @@ export async function upsertCells(
             AS c(welder_id, process, used_on, job_reference, note)
      ON CONFLICT (welder_id, process, shop_id, month) DO UPDATE SET
             used_on = EXCLUDED.used_on, job_reference = EXCLUDED.job_reference, note = EXCLUDED.note,
-            logged_by = EXCLUDED.logged_by, updated_at = EXCLUDED.updated_at, version = e.version + 1
+            logged_by = EXCLUDED.logged_by, updated_at = EXCLUDED.updated_at, version = e.version + 1,
+            -- A reviewed entry that is edited is a new statement of fact: it waits for review again (the
+            -- refresh that follows clears the status if the edit leaves it unflagged).
+            review_status = CASE WHEN e.review_status = 'reviewed' THEN 'pending' ELSE e.review_status END
       WHERE (e.used_on, e.job_reference, e.note) IS DISTINCT FROM (EXCLUDED.used_on, EXCLUDED.job_reference, EXCLUDED.note)
      RETURNING ${snapshotColumns}, (xmax = 0) AS inserted`,
     [

@@ -1,10 +1,19 @@
 // /api/continuity (the monthly log and its review queue) and /api/welders/:id/timeline
-import { Router, type RequestHandler } from 'express';
+import express, { Router, type RequestHandler } from 'express';
 import type { AppDeps } from '../lib/context.js';
 import { pathParam } from '../lib/params.js';
 import { actorOf, requireRole } from '../lib/auth.js';
 import * as continuity from './continuity.service.js';
 import { gridQuery, gridSaveInput, gridWeldersQuery, reviewInput } from './continuity.schema.js';
+
+/**
+ * The body limit of a month save. The schema allows 2,000 saved and 2,000 removed cells; a saved cell is at
+ * most about 2.6 KB of JSON (a 500-character note and an 80-character job of 4-byte characters, the id,
+ * process, date and version) and a removed one about 0.1 KB: about 5.4 MB. The app-wide 100 KB limit stays
+ * for every other route; app.ts mounts this parser for PUT /api/continuity/grid ahead of it.
+ */
+export const GRID_SAVE_BODY_LIMIT = '6mb';
+export const gridSaveBodyParser = express.json({ limit: GRID_SAVE_BODY_LIMIT });
 
 export function continuityRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
   const router = Router();

@@ -2,6 +2,7 @@
 // continuity state of every touched pair refreshed and each change audited; the review queue of use
 // logged while lapsed; and a welder's continuity timeline per process.
 import { addMonths, daysBetween, processes, type Process } from '@beadroll/rules';
+import type { EntityManager } from 'typeorm';
 import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
@@ -52,11 +53,13 @@ export async function getGrid(deps: AppDeps, actor: Actor, q: { shopId: string; 
     shop,
     month: q.month,
     closed: isClosed(q.month, today(deps), settings.closedMonthAfter),
+    today: today(deps),
     processes: ordered,
     rows: raw.map((r) => ({
       welder: r.welder,
       home: r.home,
       qualifiedProcesses: r.qualifiedProcesses,
+      pairs: r.pairs,
       cells: Object.fromEntries(
         ordered.map((p) => {
           const e = r.entries.find((x) => x.process === p);
@@ -70,6 +73,8 @@ export async function getGrid(deps: AppDeps, actor: Actor, q: { shopId: string; 
                   note: e.note,
                   flaggedLapsed: e.flaggedLapsed,
                   version: e.version,
+                  loggedBy: e.loggedBy,
+                  updatedAt: e.updatedAt,
                 }
               : null,
           ];
@@ -137,6 +142,7 @@ export async function saveGrid(deps: AppDeps, actor: Actor, input: GridSaveInput
         e,
       ]),
     );
+    await checkVersions(db, actor, input, before);
     const now = deps.clock.now();
     const scope = { organizationId: actor.organizationId, shopId: input.shopId, month };
     const written = await repo.upsertCells(db, { ...scope, loggedBy: actor.id, at: now }, input.cells);
@@ -165,6 +171,59 @@ export async function saveGrid(deps: AppDeps, actor: Actor, input: GridSaveInput
   return getGrid(deps, actor, { shopId: input.shopId, month: input.month });
 }
 
+/**
+ * Every saved or removed cell must carry the version it was edited from (null: it was empty). A cell
+ * someone else changed since is refused as a whole save (409), each stale cell named with its welder,
+ * process and whose change it is, so the screen can show the winning value and let the user reapply.
+ */
+async function checkVersions(
+  db: EntityManager,
+  actor: Actor,
+  input: GridSaveInput,
+  before: Map<string, repo.EntrySnapshot>,
+): Promise<void> {
+  const stale: { path: string; welderId: string; process: string; current: repo.EntrySnapshot | undefined }[] = [];
+  input.cells.forEach((c, i) => {
+    const current = before.get(`${c.welderId}:${c.process}`);
+    if ((current?.version ?? null) !== (c.version ?? null))
+      stale.push({ path: `cells.${i}.version`, welderId: c.welderId, process: c.process, current });
+  });
+  input.remove.forEach((c, i) => {
+    const current = before.get(`${c.welderId}:${c.process}`);
+    // Removing a cell that is already gone changes nothing: not a conflict.
+    if (current && current.version !== (c.version ?? null))
+      stale.push({ path: `remove.${i}.version`, welderId: c.welderId, process: c.process, current });
+  });
+  if (stale.length === 0) return;
+  const stamps = new Map(
+    (
+      await db.query<{ id: string; stamp: string }[]>(
+        `SELECT id, stamp FROM welders WHERE organization_id = $1 AND id = ANY($2::uuid[])`,
+        [actor.organizationId, [...new Set(stale.map((s) => s.welderId))]],
+      )
+    ).map((w) => [w.id, w.stamp]),
+  );
+  const writers = await repo.lastWriters(
+    db,
+    stale.flatMap((s) => (s.current ? [s.current.id] : [])),
+  );
+  const fields: Record<string, string> = {};
+  for (const s of stale) {
+    const who = `${stamps.get(s.welderId) ?? 'The welder'} ${s.process}`;
+    const w = s.current ? writers.get(s.current.id) : undefined;
+    fields[s.path] = s.current
+      ? `${who} was changed by ${w?.name ?? 'someone else'} at ${w?.updatedAt ?? 'an earlier moment'}: now job ${s.current.jobReference} on ${s.current.usedOn}`
+      : `${who} was removed by someone else since you opened the month`;
+  }
+  const names = stale.map((s) => `${stamps.get(s.welderId) ?? 'a welder'} ${s.process}`);
+  throw new AppError(
+    'conflict',
+    `Someone else changed ${names.slice(0, 3).join(', ')}${names.length > 3 ? ` and ${names.length - 3} more` : ''} since you opened the month; nothing was saved. Review their change and reapply yours.`,
+    409,
+    fields,
+  );
+}
+
 export async function reviewQueue(deps: AppDeps, actor: Actor) {
   return { items: await repo.pendingReview(deps.dataSource.manager, actor.organizationId) };
 }
@@ -185,6 +244,17 @@ export async function reviewEntry(deps: AppDeps, actor: Actor, id: string, input
     });
     return { id, reviewStatus: 'reviewed' as const, reviewNote: input.note };
   });
+}
+
+/** The pair's revocation date: the latest revocation when every qualification in force of it is revoked. */
+function pairRevokedOn(
+  quals: { process: string; code: string; revokedOn: string | null; superseded: boolean }[],
+  process: string,
+  code: string,
+): string | null {
+  const inForce = quals.filter((q) => q.process === process && q.code === code && !q.superseded);
+  if (inForce.length === 0 || inForce.some((q) => !q.revokedOn)) return null;
+  return inForce.map((q) => q.revokedOn as string).sort().at(-1) ?? null;
 }
 
 type EventKind = 'test' | 'use' | 'lapse' | 'renewal' | 'flag' | 'revocation';
@@ -220,16 +290,26 @@ export async function welderTimeline(deps: AppDeps, actor: Actor, welderId: stri
         }
         const e = r.entryId ? entries.get(r.entryId) : undefined;
         const where = e ? `${e.shop}, job ${e.jobReference}${e.note ? ` (${e.note})` : ''}` : '';
-        events.push({ date: r.date, kind: 'use', detail: `Used ${s.process}: ${where}` });
-        if (!r.counted)
+        events.push({
+          date: r.date,
+          kind: 'use',
+          detail: r.entryId
+            ? `Used ${s.process}: ${where}`
+            : `Passing test coupon under another code or not yet certified: use of ${s.process}, not a test of this qualification`,
+        });
+        if (!r.counted) {
+          const revokedOn = pairRevokedOn(history.qualifications, s.process, s.code);
           events.push({
             date: r.date,
             kind: 'flag',
             detail:
               r.date < s.qualifiedOn
                 ? 'Logged before the qualification date: not evidence'
-                : `Logged while lapsed: not evidence${e?.reviewStatus === 'reviewed' ? ' (reviewed)' : ', waiting for the QA manager'}`,
+                : revokedOn && r.date >= revokedOn
+                  ? `Logged on or after the revocation of ${revokedOn}: not evidence${e?.reviewStatus === 'reviewed' ? ' (reviewed)' : r.entryId ? ', waiting for the QA manager' : ''}`
+                  : `Logged while lapsed: not evidence${e?.reviewStatus === 'reviewed' ? ' (reviewed)' : r.entryId ? ', waiting for the QA manager' : ''}`,
           });
+        }
       }
       if (s.lapsesOn <= asOf && !events.some((x) => x.kind === 'lapse' && x.date === s.lapsesOn))
         events.push({ date: s.lapsesOn, kind: 'lapse', detail: 'Lapsed: no counted use or test within the window' });

@@ -16,6 +16,8 @@ const processSchema = z.enum(processes, { error: `Choose one of ${processes.join
 
 export const gridQuery = z.object({ shopId: uuid, month: monthText });
 
+const cellVersion = z.number().int('Not a valid version').min(1, 'Not a valid version').nullable().optional();
+
 export const gridSaveInput = z.object({
   shopId: uuid,
   month: monthText,
@@ -27,13 +29,15 @@ export const gridSaveInput = z.object({
         usedOn: isoDate,
         jobReference: textSchema({ max: 80 }).min(1, 'Enter the job or traveler number'),
         note: textSchema({ max: 500, multiline: true }).optional().default(''),
+        /** The version of the cell the edit was made on; null (or absent) for a cell that was empty. */
+        version: cellVersion,
       }),
     )
     .max(2000, 'At most 2000 cells in one save')
     .optional()
     .default([]),
   remove: z
-    .array(z.object({ welderId: uuid, process: processSchema }))
+    .array(z.object({ welderId: uuid, process: processSchema, version: cellVersion }))
     .max(2000, 'At most 2000 cells in one save')
     .optional()
     .default([]),
@@ -51,6 +55,9 @@ const shopRef = z.object({ id: z.string(), name: z.string(), code: z.string() })
 
 export const gridCellSchema = z.object({
   entryId: z.string(),
+  /** Who logged the cell last and when: named when another person's change wins over an edit. */
+  loggedBy: z.string().nullable().optional(),
+  updatedAt: z.string().optional(),
   usedOn: z.string(),
   jobReference: z.string(),
   note: z.string(),
@@ -60,10 +67,21 @@ export const gridCellSchema = z.object({
 });
 export type GridCell = z.infer<typeof gridCellSchema>;
 
+/** The continuity of one (process, code) pair of a grid row: its lapse date and, when every qualification
+ *  of the pair is revoked, the revocation date (already folded into lapsesOn). */
+export const gridPairSchema = z.object({
+  process: z.string(),
+  code: z.string(),
+  lapsesOn: z.string(),
+  revokedOn: z.string().nullable(),
+});
+export type GridPair = z.infer<typeof gridPairSchema>;
+
 export const gridRowSchema = z.object({
   welder: z.object({ id: z.string(), stamp: z.string(), name: z.string(), homeShopId: z.string() }),
   home: z.boolean(),
   qualifiedProcesses: z.array(z.string()),
+  pairs: z.array(gridPairSchema).default([]),
   cells: z.record(z.string(), gridCellSchema.nullable()),
 });
 export type GridRow = z.infer<typeof gridRowSchema>;
@@ -73,6 +91,8 @@ export const gridSchema = z.object({
   month: z.string(),
   /** Older than the company's closed-month age: only the QA manager may change it. */
   closed: z.boolean(),
+  /** The day the states are counted from (the company's today). */
+  today: z.string().optional(),
   processes: z.array(z.string()),
   rows: z.array(gridRowSchema),
 });

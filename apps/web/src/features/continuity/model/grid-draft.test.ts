@@ -11,14 +11,15 @@ const grid: Grid = {
   closed: false,
   processes: ['SMAW', 'GTAW'],
   rows: [
-    { welder: { id: ids[0]!, stamp: 'PV-01', name: 'A', homeShopId: shopId }, home: true, qualifiedProcesses: ['SMAW', 'GTAW'], cells: { SMAW: null, GTAW: null } },
+    { welder: { id: ids[0]!, stamp: 'PV-01', name: 'A', homeShopId: shopId }, home: true, qualifiedProcesses: ['SMAW', 'GTAW'], pairs: [], cells: { SMAW: null, GTAW: null } },
     {
       welder: { id: ids[1]!, stamp: 'PV-02', name: 'B', homeShopId: shopId },
       home: true,
       qualifiedProcesses: ['SMAW'],
+      pairs: [],
       cells: { SMAW: { entryId: 'e1', usedOn: '2026-11-03', jobReference: 'J-9', note: '', flaggedLapsed: true, version: 1 }, GTAW: null },
     },
-    { welder: { id: ids[2]!, stamp: 'PV-03', name: 'C', homeShopId: shopId }, home: true, qualifiedProcesses: ['SMAW'], cells: { SMAW: null, GTAW: null } },
+    { welder: { id: ids[2]!, stamp: 'PV-03', name: 'C', homeShopId: shopId }, home: true, qualifiedProcesses: ['SMAW'], pairs: [], cells: { SMAW: null, GTAW: null } },
   ],
 };
 
@@ -76,7 +77,7 @@ describe('the continuity-log grid draft', () => {
   it('sends an unticked saved cell as a removal, and maps 400 fields back to their cells', () => {
     const draft = toggleUsed(setCell(draftFromGrid(grid), ids[0]!, 'SMAW', { jobReference: 'X' }), ids[1]!, 'SMAW');
     const body = saveBody(draft);
-    expect(body.remove).toEqual([{ welderId: ids[1], process: 'SMAW' }]);
+    expect(body.remove).toEqual([{ welderId: ids[1], process: 'SMAW', version: 1 }]);
     const mapped = cellErrors(body, { 'cells.0.usedOn': 'The date must be within 2026-11', month: 'The month cannot be in the future' });
     expect(mapped.byCell[`${ids[0]}:SMAW`]).toEqual({ usedOn: 'The date must be within 2026-11' });
     expect(mapped.other).toEqual(['The month cannot be in the future']);

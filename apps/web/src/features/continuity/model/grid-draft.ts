@@ -16,6 +16,8 @@ export interface DraftCell extends CellValue {
   flaggedLapsed: boolean;
   /** What the server holds for the cell (null: nothing logged). */
   saved: CellValue | null;
+  /** The server's version of the cell the edit started from (null: it was empty); sent with the save. */
+  version: number | null;
 }
 
 export interface DraftRow {
@@ -36,7 +38,7 @@ export const cellKey = (welderId: string, process: string) => `${welderId}:${pro
 export const firstDayOf = (month: string) => `${month}-01`;
 
 function emptyCell(month: string, enabled: boolean): DraftCell {
-  return { used: false, jobReference: '', note: '', usedOn: firstDayOf(month), enabled, flaggedLapsed: false, saved: null };
+  return { used: false, jobReference: '', note: '', usedOn: firstDayOf(month), enabled, flaggedLapsed: false, saved: null, version: null };
 }
 
 export function draftFromGrid(grid: Grid): GridDraft {
@@ -54,7 +56,7 @@ export function draftFromGrid(grid: Grid): GridDraft {
           const enabled = row.qualifiedProcesses.includes(p) || entry !== null;
           if (!entry) return [p, emptyCell(grid.month, enabled)];
           const value = { used: true, jobReference: entry.jobReference, note: entry.note, usedOn: entry.usedOn };
-          return [p, { ...value, enabled, flaggedLapsed: entry.flaggedLapsed, saved: value }];
+          return [p, { ...value, enabled, flaggedLapsed: entry.flaggedLapsed, saved: value, version: entry.version }];
         }),
       ),
     })),
@@ -165,10 +167,11 @@ export function saveBody(draft: GridDraft): GridSaveBody & { cells: NonNullable<
       usedOn: c.cell.usedOn,
       jobReference: c.cell.jobReference.trim(),
       note: c.cell.note.trim(),
+      version: c.cell.version,
     }));
   const remove = changes
     .filter((c) => !c.cell.used)
-    .map((c) => ({ welderId: c.welderId, process: c.process as (typeof allProcesses)[number] }));
+    .map((c) => ({ welderId: c.welderId, process: c.process as (typeof allProcesses)[number], version: c.cell.version }));
   return { shopId: draft.shopId, month: draft.month, cells, remove };
 }
 
