@@ -61,8 +61,11 @@ export { RETEST_RULES } from './examination/retests.js';
 // qualified ranges
 export * from './ranges/positions.js';
 export {
+  asmeFNumberGroups,
+  awsSmawFNumbers,
   fNumberInterchange,
   fNumberRow,
+  type FNumberGroup,
   type Backing,
   type FNumberInterchangeRow,
   type FNumberQualification,
@@ -75,6 +78,7 @@ export {
   type PositionTableSet,
 } from './ranges/position-tables.js';
 export { qualifiedRanges, RANGES_NOTICE, type QualifiedRanges } from './ranges/qualified-ranges.js';
+export { jointWithin } from './ranges/joint-within.js';
 export { type Interval, type RangeLimit } from './ranges/size-ranges.js';
 
 // continuity

@@ -4,6 +4,8 @@ import { type BendTestInput } from '../schemas/bend.js';
 import { type ContinuityInput } from '../schemas/continuity.js';
 import { type CouponInput } from '../schemas/coupon.js';
 import { addDays } from '../continuity/calendar.js';
+import { type Joint } from '../schemas/examination.js';
+import { qualifiedRanges } from '../ranges/qualified-ranges.js';
 
 export const bendInput: BendTestInput = {
   criteria: 'aws-d1.1',
@@ -48,7 +50,38 @@ export const continuityInput: ContinuityInput = {
   asOf: addDays('2018-01-20', 99 * 25 + 10),
 };
 
-export const TARGETS = { evaluateBendTest: 200_000, qualifiedRanges: 200_000, continuityStatus: 50_000 };
+// The crew finder asks one joint of many welders' ranges: the ranges are computed once, the joint checked
+// each time. A joint within every limit (the whole check runs) and one that fails on three.
+export const jointRanges = qualifiedRanges(couponInput);
+export const jointInputs: Joint[] = [
+  {
+    form: 'pipe',
+    weld: 'groove',
+    position: 'V',
+    thickness: { value: 0.5, unit: 'in' },
+    outsideDiameter: { value: 8.625, unit: 'in' },
+    fNumber: 4,
+    backing: false,
+    progression: 'uphill',
+  },
+  {
+    form: 'pipe',
+    weld: 'groove',
+    position: 'V',
+    thickness: { value: 25, unit: 'mm' },
+    outsideDiameter: { value: 60.3, unit: 'mm' },
+    fNumber: 5,
+    backing: false,
+    progression: 'downhill',
+  },
+];
+
+export const TARGETS = {
+  evaluateBendTest: 200_000,
+  qualifiedRanges: 200_000,
+  continuityStatus: 50_000,
+  jointWithin: 500_000,
+};
 
 /** Long enough to warm up the JIT and average out a busy shared machine. */
 export const BENCH_OPTIONS = { time: 2000, warmupTime: 500, warmupIterations: 2000 };

@@ -7,7 +7,8 @@ import { describe, expect, it } from 'vitest';
 import { evaluateBendTest } from '../bend/evaluate-bend-test.js';
 import { continuityStatus } from '../continuity/continuity-status.js';
 import { qualifiedRanges } from '../ranges/qualified-ranges.js';
-import { bendInput, continuityInput, couponInput, TARGETS } from './inputs.js';
+import { jointWithin } from '../ranges/joint-within.js';
+import { bendInput, continuityInput, couponInput, jointInputs, jointRanges, TARGETS } from './inputs.js';
 
 type Rate = { wall: number; cpu: number; share: number };
 
@@ -51,6 +52,17 @@ describe('throughput floor (half the bench target)', () => {
     expectFloor(
       callsPerSecond(() => qualifiedRanges(couponInput), 20_000),
       TARGETS.qualifiedRanges / 2,
+    );
+  });
+
+  it(`jointWithin: at least ${TARGETS.jointWithin / 2} checks/s`, () => {
+    const [inside, outside] = jointInputs;
+    expect(jointWithin(jointRanges, inside!).within).toBe(true);
+    expect(jointWithin(jointRanges, outside!).reasons.length).toBeGreaterThan(1);
+    let i = 0;
+    expectFloor(
+      callsPerSecond(() => jointWithin(jointRanges, jointInputs[i++ & 1]!), 50_000),
+      TARGETS.jointWithin / 2,
     );
   });
 
