@@ -10,7 +10,7 @@ import { apiNotFound, errorHandler } from './lib/errors.js';
 import { createAuthenticator } from './lib/auth.js';
 import { refuseUnsafeText } from './lib/input-guard.js';
 import { mountWeb } from './lib/web.js';
-import { loadActor } from './auth/auth.repository.js';
+import { loadSessionActor } from './auth/auth.repository.js';
 import { healthRouter } from './health/health.router.js';
 import { authRouter } from './auth/auth.router.js';
 import { shopsRouter } from './shops/shops.router.js';
@@ -75,7 +75,9 @@ export function createApp(opts: CreateAppOptions): Express {
   );
   app.use(cookieParser());
 
-  const session = createAuthenticator(config, (userId) => loadActor(dataSource.manager, userId));
+  const session = createAuthenticator(config, (sessionId) =>
+    loadSessionActor(dataSource.manager, sessionId, deps.clock.now()),
+  );
   // API tokens (Authorization: Bearer) are checked in front of the session cookie on every route.
   const auth = { ...session, requireAuth: withApiTokens(deps, session.requireAuth) };
 

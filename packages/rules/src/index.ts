@@ -11,6 +11,7 @@ export * from './schemas/records.js';
 export * from './schemas/continuity-admin.js';
 export * from './schemas/continuity-log.js';
 export * from './schemas/api-tokens.js';
+export * from './schemas/sessions.js';
 export { RulesInputError } from './validation/rules-input-error.js';
 export { fieldsOf } from './validation/parse-input.js';
 export { RULES_VERSION } from './version.js';

@@ -120,3 +120,101 @@ export async function findValidToken(
   );
   return rows[0] ?? null;
 }
+
+// ---- sessions -------------------------------------------------------------------------------------
+
+/** Touch the session at most every few minutes, so a busy session does not write on every request. */
+const TOUCH_AFTER = "interval '5 minutes'";
+
+/**
+ * The caller of an open session, in one statement: the session row by primary key, its user, and a
+ * last-seen touch when the previous one is older than five minutes.
+ */
+export async function loadSessionActor(db: EntityManager, sessionId: string, now: Date): Promise<Actor | null> {
+  const rows: Actor[] = await db.query(
+    `WITH touched AS (
+       UPDATE sessions SET last_seen_at = $2
+        WHERE id = $1 AND ended_at IS NULL AND last_seen_at < $2::timestamptz - ${TOUCH_AFTER}
+     )
+     SELECT u.id, u.organization_id AS "organizationId", u.role, u.welder_id AS "welderId",
+            CASE u.role
+              WHEN 'foreman' THEN ARRAY(SELECT fs.shop_id::text FROM foreman_shops fs WHERE fs.user_id = u.id ORDER BY 1)
+              WHEN 'welder' THEN ARRAY(SELECT w.home_shop_id::text FROM welders w WHERE w.id = u.welder_id)
+              ELSE ARRAY[]::text[]
+            END AS "shopIds",
+            s.id AS "sessionId"
+       FROM sessions s JOIN users u ON u.id = s.user_id
+      WHERE s.id = $1 AND s.ended_at IS NULL AND s.expires_at > $2
+        AND u.active AND u.password_hash IS NOT NULL`,
+    [sessionId, now],
+  );
+  return rows[0] ?? null;
+}
+
+export interface NewSession {
+  userId: string;
+  at: Date;
+  expiresAt: Date;
+  userAgent: string;
+  address: string;
+}
+
+export async function insertSession(db: EntityManager, s: NewSession): Promise<string> {
+  const rows: { id: string }[] = await db.query(
+    `INSERT INTO sessions (user_id, created_at, last_seen_at, expires_at, user_agent, address)
+     VALUES ($1, $2, $2, $3, $4, $5) RETURNING id`,
+    [s.userId, s.at, s.expiresAt, s.userAgent, s.address],
+  );
+  return rows[0]!.id;
+}
+
+export type SessionEndReason = 'signed-out' | 'ended-by-owner';
+
+/** Ends open sessions of the user: one (`only`), or every one but `except`. Returns the ids ended. */
+export async function endSessions(
+  db: EntityManager,
+  userId: string,
+  at: Date,
+  reason: SessionEndReason,
+  which: { only: string } | { except: string | null },
+): Promise<string[]> {
+  const rows: { id: string }[] = await db.query(
+    // Wrapped in a SELECT: TypeORM answers a bare UPDATE … RETURNING with [rows, count].
+    `WITH ended AS (
+       UPDATE sessions SET ended_at = $2, ended_reason = $3
+        WHERE user_id = $1 AND ended_at IS NULL
+          AND ($4::uuid IS NULL OR id = $4) AND ($5::uuid IS NULL OR id <> $5)
+        RETURNING id
+     )
+     SELECT id FROM ended`,
+    [userId, at, reason, 'only' in which ? which.only : null, 'except' in which ? which.except : null],
+  );
+  return rows.map((r) => r.id);
+}
+
+/** Ends one session by id, whoever owns it (signing out with the session's own cookie). */
+export async function endSessionById(db: EntityManager, sessionId: string, at: Date): Promise<void> {
+  await db.query(
+    `UPDATE sessions SET ended_at = $2, ended_reason = 'signed-out' WHERE id = $1 AND ended_at IS NULL`,
+    [sessionId, at],
+  );
+}
+
+export interface SessionRow {
+  id: string;
+  createdAt: Date;
+  lastSeenAt: Date;
+  expiresAt: Date;
+  userAgent: string;
+  address: string;
+}
+
+export async function listOpenSessions(db: EntityManager, userId: string, now: Date): Promise<SessionRow[]> {
+  return db.query(
+    `SELECT id, created_at AS "createdAt", last_seen_at AS "lastSeenAt", expires_at AS "expiresAt",
+            user_agent AS "userAgent", address
+       FROM sessions WHERE user_id = $1 AND ended_at IS NULL AND expires_at > $2
+      ORDER BY last_seen_at DESC, id`,
+    [userId, now],
+  );
+}

@@ -1,11 +1,11 @@
 // /api/auth/* and /api/me.
-import { Router, type RequestHandler } from 'express';
+import { Router, type Request, type RequestHandler } from 'express';
 import { rateLimit, ipKeyGenerator } from 'express-rate-limit';
 import { loginInput, passwordResetRequestInput, setPasswordInput } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import { pathParam } from '../lib/params.js';
 import { AppError } from '../lib/errors.js';
-import { actorOf, clearSessionCookie, setSessionCookie } from '../lib/auth.js';
+import { actorOf, clearSessionCookie, sessionIdOf, setSessionCookie } from '../lib/auth.js';
 import * as auth from './auth.service.js';
 
 /** Counts attempts per client address and e-mail; a successful sign-in does not count. */
@@ -25,6 +25,10 @@ function attemptLimiter(limit: number, message: string, countSuccesses = false):
   });
 }
 
+function clientOf(req: Request): auth.ClientInfo {
+  return { userAgent: req.get('user-agent') ?? '', address: req.ip ?? '' };
+}
+
 export function authRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
   const router = Router();
   const loginLimiter = attemptLimiter(
@@ -38,13 +42,31 @@ export function authRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
   );
 
   router.post('/auth/login', loginLimiter, async (req, res) => {
-    const { token, me } = await auth.login(deps, loginInput.parse(req.body));
+    const { token, me } = await auth.login(deps, loginInput.parse(req.body), clientOf(req));
     setSessionCookie(res, deps.config, token);
     res.json(me);
   });
 
-  router.post('/auth/logout', (_req, res) => {
+  router.post('/auth/logout', async (req, res) => {
+    await auth.signOut(deps, sessionIdOf(deps.config, req));
     clearSessionCookie(res, deps.config);
+    res.status(204).end();
+  });
+
+  router.get('/auth/sessions', requireAuth, async (req, res) => {
+    res.json(await auth.listSessions(deps, actorOf(req)));
+  });
+
+  /** Signs out every other browser or device of the caller. */
+  router.post('/auth/sessions/end-others', requireAuth, async (req, res) => {
+    res.json(await auth.endOwnSessions(deps, actorOf(req), null));
+  });
+
+  router.delete('/auth/sessions/:id', requireAuth, async (req, res) => {
+    const actor = actorOf(req);
+    const id = pathParam(req, 'id');
+    await auth.endOwnSessions(deps, actor, id);
+    if (id === actor.sessionId) clearSessionCookie(res, deps.config);
     res.status(204).end();
   });
 
@@ -62,7 +84,7 @@ export function authRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
   });
 
   router.post('/auth/set-password', async (req, res) => {
-    const { token, me } = await auth.setPassword(deps, setPasswordInput.parse(req.body));
+    const { token, me } = await auth.setPassword(deps, setPasswordInput.parse(req.body), clientOf(req));
     setSessionCookie(res, deps.config, token);
     res.json(me);
   });

@@ -6,14 +6,16 @@ import {
   setPasswordInput,
   type LoginInput,
   type Me,
+  type SessionList,
   type SetPasswordInput,
   type TokenInfo,
 } from '@beadroll/rules';
 import { AppError } from '../lib/errors.js';
 import type { AppDeps } from '../lib/context.js';
-import type { Actor } from '../lib/scope.js';
+import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
-import { signSession } from '../lib/auth.js';
+import { clipText } from '../lib/text.js';
+import { SESSION_HOURS, signSession } from '../lib/auth.js';
 import { listShopRefs } from '../shops/shops.service.js';
 import * as repo from './auth.repository.js';
 import type { TokenPurpose } from './auth-token.entity.js';
@@ -35,19 +37,93 @@ export async function getMe(deps: AppDeps, actor: Actor): Promise<Me> {
   return { ...row, shops: await listShopRefs(deps, actor) };
 }
 
-async function signIn(deps: AppDeps, userId: string): Promise<{ token: string; me: Me }> {
-  const db = deps.dataSource.manager;
-  await repo.recordSignIn(db, userId, deps.clock.now());
-  const actor = await repo.loadActor(db, userId);
-  if (!actor) throw new AppError('unauthenticated', WRONG_SIGN_IN);
-  return { token: signSession(deps.config, actor), me: await getMe(deps, actor) };
+/** Where a sign-in comes from, kept on its session so the owner can tell their devices apart. */
+export interface ClientInfo {
+  userAgent: string;
+  address: string;
 }
 
-export async function login(deps: AppDeps, input: LoginInput): Promise<{ token: string; me: Me }> {
+async function signIn(deps: AppDeps, userId: string, client: ClientInfo): Promise<{ token: string; me: Me }> {
+  const now = deps.clock.now();
+  const { actor, sessionId } = await deps.dataSource.transaction(async (db) => {
+    await repo.recordSignIn(db, userId, now);
+    const actor = await repo.loadActor(db, userId);
+    if (!actor) throw new AppError('unauthenticated', WRONG_SIGN_IN);
+    const sessionId = await repo.insertSession(db, {
+      userId,
+      at: now,
+      expiresAt: addHours(now, SESSION_HOURS),
+      userAgent: clip(client.userAgent, 300),
+      address: clip(client.address, 64),
+    });
+    return { actor, sessionId };
+  });
+  return { token: signSession(deps.config, actor, sessionId), me: await getMe(deps, actor) };
+}
+
+/** Printable text only (a header can carry anything), at most max UTF-16 units. */
+const clip = (s: string, max: number) =>
+  clipText(s.replace(/[^\x20-\x7e\u00a0-\ud7ff\ue000-\uffff\u{10000}-\u{10ffff}]/gu, ''), max);
+
+export async function login(
+  deps: AppDeps,
+  input: LoginInput,
+  client: ClientInfo,
+): Promise<{ token: string; me: Me }> {
   const user = await repo.findSignIn(deps.dataSource.manager, input.email);
   const ok = await verifyPassword(user?.passwordHash ?? null, input.password);
   if (!user || !ok || !user.active) throw new AppError('unauthenticated', WRONG_SIGN_IN);
-  return signIn(deps, user.id);
+  return signIn(deps, user.id, client);
+}
+
+// ---- sessions -------------------------------------------------------------------------------------
+
+/** Signing out: ends the session the cookie names (if any); the cookie is cleared by the caller. */
+export async function signOut(deps: AppDeps, sessionId: string | null): Promise<void> {
+  if (sessionId && isUuid(sessionId)) await repo.endSessionById(deps.dataSource.manager, sessionId, deps.clock.now());
+}
+
+export async function listSessions(deps: AppDeps, actor: Actor): Promise<SessionList> {
+  const rows = await repo.listOpenSessions(deps.dataSource.manager, actor.id, deps.clock.now());
+  return {
+    items: rows.map((r) => ({
+      id: r.id,
+      createdAt: r.createdAt.toISOString(),
+      lastSeenAt: r.lastSeenAt.toISOString(),
+      expiresAt: r.expiresAt.toISOString(),
+      userAgent: r.userAgent,
+      address: r.address,
+      current: r.id === actor.sessionId,
+    })),
+  };
+}
+
+/**
+ * Ends one of the caller's own sessions (`id`), or every other one (`id` null). Another person's session
+ * id matches nothing: 404. Recorded in the audit trail of the person.
+ */
+export async function endOwnSessions(deps: AppDeps, actor: Actor, id: string | null): Promise<{ ended: number }> {
+  if (id !== null && !isUuid(id)) throw AppError.notFound('session');
+  return deps.dataSource.transaction(async (db) => {
+    const now = deps.clock.now();
+    const ended = await repo.endSessions(
+      db,
+      actor.id,
+      now,
+      id === actor.sessionId ? 'signed-out' : 'ended-by-owner',
+      id === null ? { except: actor.sessionId ?? null } : { only: id },
+    );
+    if (id !== null && ended.length === 0) throw AppError.notFound('session');
+    if (ended.length > 0)
+      await recordAudit(db, actor, now, {
+        action: 'person.sessions_ended',
+        entityType: 'person',
+        entityId: actor.id,
+        before: { openSessions: ended },
+        after: { openSessions: [] },
+      });
+    return { ended: ended.length };
+  });
 }
 
 /**
@@ -121,6 +197,7 @@ export async function getTokenInfo(deps: AppDeps, token: string): Promise<TokenI
 export async function setPassword(
   deps: AppDeps,
   input: SetPasswordInput,
+  client: ClientInfo,
 ): Promise<{ token: string; me: Me }> {
   const tokenHash = hashToken(input.token);
   const passwordHash = await hashPassword(input.password);
@@ -146,5 +223,6 @@ export async function setPassword(
     });
     return row.userId;
   });
-  return signIn(deps, userId);
+  // The new password ended every older session (trigger on users); this one starts fresh.
+  return signIn(deps, userId, client);
 }

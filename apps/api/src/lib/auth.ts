@@ -1,6 +1,7 @@
-// Sessions: a signed JWT (jsonwebtoken) in an httpOnly, SameSite=Lax cookie, read back by a passport-jwt
-// strategy that reloads the caller from the database on every request — so a deactivated account or a
-// changed shop assignment takes effect at once. `requireRole` is the one place roles are checked.
+// Sessions: a signed JWT (jsonwebtoken) in an httpOnly, SameSite=Lax cookie naming a row of the sessions
+// table (`sid`), read back by a passport-jwt strategy that loads the session and its caller in one
+// indexed query on every request — so signing out, a password reset, a deactivation or a role change
+// ends the session at once, on every instance. `requireRole` is the one place roles are checked.
 import type { RequestHandler, Request, Response } from 'express';
 import jwt from 'jsonwebtoken';
 import passport from 'passport';
@@ -8,7 +9,7 @@ import { Strategy as JwtStrategy } from 'passport-jwt';
 import type { Role } from '@beadroll/rules';
 import type { Config } from '../config.js';
 import { AppError } from './errors.js';
-import type { Actor } from './scope.js';
+import { isUuid, type Actor } from './scope.js';
 
 declare global {
   // eslint-disable-next-line @typescript-eslint/no-namespace
@@ -20,24 +21,47 @@ declare global {
 }
 
 export const SESSION_COOKIE = 'beadroll_session';
-const SESSION_HOURS = 12;
+export const SESSION_HOURS = 12;
 const ISSUER = 'beadroll';
 
 interface SessionClaims {
   sub: string;
   org: string;
+  sid: string;
 }
 
 export function signSession(
   config: Pick<Config, 'jwtSecret'>,
   actor: { id: string; organizationId: string },
+  sessionId: string,
 ): string {
-  return jwt.sign({ org: actor.organizationId }, config.jwtSecret, {
+  return jwt.sign({ org: actor.organizationId, sid: sessionId }, config.jwtSecret, {
     subject: actor.id,
     issuer: ISSUER,
     algorithm: 'HS256',
     expiresIn: `${SESSION_HOURS}h`,
   });
+}
+
+const sessionToken = (req: Request): string | null => {
+  const cookies = req.cookies as Record<string, string | undefined> | undefined;
+  return cookies?.[SESSION_COOKIE] ?? null;
+};
+
+/** The session id of the request's cookie when its signature holds (expired or not), else null. */
+export function sessionIdOf(config: Pick<Config, 'jwtSecret'>, req: Request): string | null {
+  const token = sessionToken(req);
+  if (!token) return null;
+  try {
+    const claims = jwt.verify(token, config.jwtSecret, {
+      issuer: ISSUER,
+      algorithms: ['HS256'],
+      ignoreExpiration: true,
+    }) as Partial<SessionClaims>;
+    return typeof claims.sid === 'string' ? claims.sid : null;
+  } catch {
+    return null;
+  }
 }
 
 export function setSessionCookie(res: Response, config: Pick<Config, 'appUrl'>, token: string): void {
@@ -62,24 +86,24 @@ export function clearSessionCookie(res: Response, config: Pick<Config, 'appUrl'>
 /** A passport instance of our own per app, so that two apps in one process (tests) never share state. */
 export function createAuthenticator(
   config: Pick<Config, 'jwtSecret'>,
-  loadActor: (userId: string) => Promise<Actor | null>,
+  /** The caller of an open session, or null when the session has ended or its account cannot sign in. */
+  loadActor: (sessionId: string) => Promise<Actor | null>,
 ) {
   const authenticator = new passport.Passport();
   authenticator.use(
     'jwt',
     new JwtStrategy(
       {
-        jwtFromRequest: (req: Request) => {
-          const cookies = req.cookies as Record<string, string | undefined> | undefined;
-          return cookies?.[SESSION_COOKIE] ?? null;
-        },
+        jwtFromRequest: sessionToken,
         secretOrKey: config.jwtSecret,
         issuer: ISSUER,
         algorithms: ['HS256'],
       },
       (claims: SessionClaims, done: (err: unknown, user?: Actor | false) => void) => {
-        loadActor(claims.sub).then(
-          (actor) => done(null, actor && actor.organizationId === claims.org ? actor : false),
+        if (typeof claims.sid !== 'string' || !isUuid(claims.sid)) return done(null, false);
+        loadActor(claims.sid).then(
+          (actor) =>
+            done(null, actor && actor.id === claims.sub && actor.organizationId === claims.org ? actor : false),
           (err: unknown) => done(err),
         );
       },

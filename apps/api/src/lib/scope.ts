@@ -15,6 +15,8 @@ export interface Actor {
   shopIds: string[];
   /** Set when the caller is another system presenting an API token (issue 13); absent for a person. */
   apiToken?: { id: string; access: 'read' | 'read-write' };
+  /** The session the request came with (absent for callers that are not a browser session). */
+  sessionId?: string;
 }
 
 /** Shops the actor may read. `alias` is the shops alias in qb. */

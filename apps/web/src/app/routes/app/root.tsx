@@ -87,7 +87,9 @@ function Shell({ children }: { children: ReactNode }) {
           </nav>
           <div className="ml-auto flex items-center gap-3">
             <div className="text-right leading-tight">
-              <p className="text-sm font-semibold text-stone-900">{me.name}</p>
+              <Link to={paths.account.href()} className="text-sm font-semibold text-stone-900 hover:underline" title="Your account and signed-in devices">
+                {me.name}
+              </Link>
               <p className="text-xs text-stone-500">
                 {roleLabels[me.role]} · {me.organization.name}
               </p>
