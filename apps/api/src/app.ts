@@ -9,6 +9,7 @@ import type { AppDeps } from './lib/context.js';
 import { apiNotFound, errorHandler } from './lib/errors.js';
 import { createAuthenticator } from './lib/auth.js';
 import { refuseUnsafeText } from './lib/input-guard.js';
+import { refuseCrossSite } from './lib/csrf.js';
 import { mountWeb } from './lib/web.js';
 import { loadSessionActor } from './auth/auth.repository.js';
 import { healthRouter } from './health/health.router.js';
@@ -86,6 +87,7 @@ export function createApp(opts: CreateAppOptions): Express {
     res.setHeader('Cache-Control', 'no-store');
     next();
   });
+  api.use(refuseCrossSite(config));
   // A big shop's month save (up to the schema's 2,000 cells) needs more than the app-wide limit.
   api.put('/continuity/grid', gridSaveBodyParser);
   api.use(express.json({ limit: JSON_LIMIT }));

@@ -131,6 +131,17 @@ describe('qualifications (WPQs)', () => {
   it('renders the WPQ PDF and the wallet card through the API with welder, stamp, ranges and the verify URL', async () => {
     const { world, qa, certify } = await certified();
     const q = await certify('A');
+    // A download is a read: with no verify link issued, the card prints without a QR code, and neither
+    // download creates a token or an audit row (issue 11, finding 2).
+    const auditBefore = (await auditRows(api.ds, world.weldersA[0]!.id)).length;
+    const bare = await qa.get(`/api/welders/${world.weldersA[0]!.id}/card.pdf`).buffer(true).parse(binaryBody).expect(200);
+    await qa.get(`/api/qualifications/${q.id}/wpq.pdf`).expect(200);
+    expect((await readPdf(bare.body as Buffer)).text).toContain('No verify link issued');
+    expect((await pdfImages(bare.body as Buffer)).map((i) => decodeQr(i.png)).filter((t) => t !== null)).toEqual([]);
+    expect((await qa.get(`/api/welders/${world.weldersA[0]!.id}/verify-token`).expect(200)).body).toMatchObject({ active: false });
+    expect(await auditRows(api.ds, world.weldersA[0]!.id)).toHaveLength(auditBefore);
+    await qa.post(`/api/welders/${world.weldersA[0]!.id}/verify-token`).expect(201);
+
     const wpq = await qa
       .get(`/api/qualifications/${q.id}/wpq.pdf`)
       .buffer(true)
@@ -155,7 +166,7 @@ describe('qualifications (WPQs)', () => {
     // The QR code on the card opens the same verify page.
     const images = await pdfImages(card.body as Buffer);
     const qr = images.map((i) => decodeQr(i.png)).find((t) => t !== null);
-    // Both carry the same verify link (the card issued the token, the WPQ reused it).
+    // Both carry the link the QA manager issued.
     // The footer line wraps inside the URL; read it with the line breaks taken out.
     const token = new RegExp(`${api.config.appUrl.replace(/[./]/g, '\\$&')}/verify/([A-Za-z0-9_-]{43})`).exec(
       wpqText.replace(/\s/g, ''),

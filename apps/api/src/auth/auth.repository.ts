@@ -123,32 +123,35 @@ export async function findValidToken(
 
 // ---- sessions -------------------------------------------------------------------------------------
 
-/** Touch the session at most every few minutes, so a busy session does not write on every request. */
-const TOUCH_AFTER = "interval '5 minutes'";
+/** A session's last use is written at most every five minutes, so a busy session does not write per request. */
+const TOUCH_AFTER_MS = 5 * 60 * 1000;
 
 /**
- * The caller of an open session, in one statement: the session row by primary key, its user, and a
- * last-seen touch when the previous one is older than five minutes.
+ * The caller of an open session, in one read: the session row by primary key and its user. When the
+ * last recorded use is older than five minutes, one UPDATE follows without holding up the request.
  */
 export async function loadSessionActor(db: EntityManager, sessionId: string, now: Date): Promise<Actor | null> {
-  const rows: Actor[] = await db.query(
-    `WITH touched AS (
-       UPDATE sessions SET last_seen_at = $2
-        WHERE id = $1 AND ended_at IS NULL AND last_seen_at < $2::timestamptz - ${TOUCH_AFTER}
-     )
-     SELECT u.id, u.organization_id AS "organizationId", u.role, u.welder_id AS "welderId",
+  const rows: (Actor & { lastSeenAt: Date })[] = await db.query(
+    `SELECT u.id, u.organization_id AS "organizationId", u.role, u.welder_id AS "welderId",
             CASE u.role
               WHEN 'foreman' THEN ARRAY(SELECT fs.shop_id::text FROM foreman_shops fs WHERE fs.user_id = u.id ORDER BY 1)
               WHEN 'welder' THEN ARRAY(SELECT w.home_shop_id::text FROM welders w WHERE w.id = u.welder_id)
               ELSE ARRAY[]::text[]
             END AS "shopIds",
-            s.id AS "sessionId"
+            s.id AS "sessionId", s.last_seen_at AS "lastSeenAt"
        FROM sessions s JOIN users u ON u.id = s.user_id
       WHERE s.id = $1 AND s.ended_at IS NULL AND s.expires_at > $2
         AND u.active AND u.password_hash IS NOT NULL`,
     [sessionId, now],
   );
-  return rows[0] ?? null;
+  const row = rows[0];
+  if (!row) return null;
+  const { lastSeenAt, ...actor } = row;
+  if (now.getTime() - lastSeenAt.getTime() > TOUCH_AFTER_MS)
+    void db.query(`UPDATE sessions SET last_seen_at = $2 WHERE id = $1 AND last_seen_at < $2`, [sessionId, now]).catch(
+      () => undefined, // a lost "last used" time is not worth failing or logging a request for
+    );
+  return actor;
 }
 
 export interface NewSession {

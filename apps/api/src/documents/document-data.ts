@@ -138,7 +138,8 @@ export type WalletCardData = {
   company: { name: string };
   welder: { name: string; stamp: string; homeShop: string };
   issuedOn: IsoDate;
-  verifyUrl: string;
+  /** The welder's live verify link; null when none is issued (the card then prints without a QR code). */
+  verifyUrl: string | null;
   /** The welder's current (and lapsing) qualifications; lapsed and revoked ones do not belong on a card. */
   qualifications: WalletCardQualification[];
 };

@@ -186,13 +186,23 @@ function drawFront(doc: PDFKit.PDFDocument, d: WalletCardData): void {
     });
 }
 
-function drawBack(doc: PDFKit.PDFDocument, d: WalletCardData, qr: Buffer): void {
+function drawBack(doc: PDFKit.PDFDocument, d: WalletCardData, qr: Buffer | null): void {
   const [W, H] = CARD_SIZE;
   const inner = W - 2 * M;
   const qrSize = 96;
   const qrX = M - 4;
   const qrY = 6;
-  doc.image(qr, qrX, qrY, { width: qrSize, height: qrSize });
+  if (qr) doc.image(qr, qrX, qrY, { width: qrSize, height: qrSize });
+  else
+    doc
+      .rect(qrX + 8, qrY + 8, qrSize - 16, qrSize - 16)
+      .lineWidth(0.5)
+      .strokeColor(MUTED)
+      .stroke()
+      .font(FONT_REGULAR)
+      .fontSize(6)
+      .fillColor(MUTED)
+      .text('No verify link issued', qrX + 12, qrY + qrSize / 2 - 8, { width: qrSize - 24, align: 'center' });
   const tx = qrX + qrSize + 6;
   const tw = W - M - tx;
   doc.font(FONT_SEMIBOLD).fontSize(8).fillColor(INK).text("Check today's status", tx, 12, { width: tw });
@@ -217,7 +227,12 @@ function drawBack(doc: PDFKit.PDFDocument, d: WalletCardData, qr: Buffer): void 
     .font(FONT_REGULAR)
     .fontSize(5.6)
     .fillColor(INK)
-    .text(d.verifyUrl, M, urlY, { width: inner, align: 'left', link: d.verifyUrl });
+    .text(
+      d.verifyUrl ?? 'No verify link was issued for this welder when this card was printed.',
+      M,
+      urlY,
+      d.verifyUrl ? { width: inner, align: 'left', link: d.verifyUrl } : { width: inner, align: 'left' },
+    );
   doc
     .font(FONT_SEMIBOLD)
     .fontSize(5)
@@ -236,7 +251,7 @@ function drawBack(doc: PDFKit.PDFDocument, d: WalletCardData, qr: Buffer): void 
 
 /** The wallet card as a two-page PDF: page 1 the front, page 2 the back, each 85.6 × 54 mm. */
 export async function renderWalletCardPdf(d: WalletCardData): Promise<Buffer> {
-  const qr = await qrCodePng(d.verifyUrl);
+  const qr = d.verifyUrl ? await qrCodePng(d.verifyUrl) : null;
   const doc = createDocument({
     size: CARD_SIZE,
     margins: { top: 0, bottom: 0, left: 0, right: 0 },

@@ -21,7 +21,7 @@ import { recordAudit } from '../lib/audit.js';
 import { isoDay } from '../lib/dates.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
 import { getCoupon, lockCouponForCertification } from '../coupons/coupons.service.js';
-import { ensureVerifyUrl } from '../verify/verify-tokens.service.js';
+import { currentVerifyUrl } from '../verify/verify-tokens.service.js';
 import { renderWpqPdf } from '../documents/wpq-pdf.js';
 import { renderWalletCardPdf } from '../documents/wallet-card-pdf.js';
 import { formatDiameterRange, formatThicknessRange } from '../documents/document-format.js';
@@ -282,7 +282,7 @@ export async function wpqPdf(
   const asOf = today(deps);
   const status = qualificationStatus(q, asOf);
   const company = await repo.organizationName(deps.dataSource.manager, actor.organizationId);
-  const verifyUrl = await ensureVerifyUrl(deps, actor, q.welder.id);
+  const verifyUrl = await currentVerifyUrl(deps, q.welder.id);
   const c = coupon.coupon;
   const data: WpqDocumentData = {
     company: { name: company },
@@ -318,7 +318,7 @@ export async function wpqPdf(
     ranges: q.ranges as unknown as QualifiedRanges,
     rulesVersion: q.rulesVersion,
     status: { state: status.state, lapsesOn: status.lapsesOn, asOf },
-    verifyUrl,
+    ...(verifyUrl ? { verifyUrl } : {}),
   };
   return {
     pdf: await renderWpqPdf(data),
@@ -347,7 +347,7 @@ export async function walletCardPdf(
 ): Promise<{ pdf: Buffer; fileName: string }> {
   const list = await welderQualificationsToday(deps, actor, welder.id);
   const company = await repo.organizationName(deps.dataSource.manager, actor.organizationId);
-  const verifyUrl = await ensureVerifyUrl(deps, actor, welder.id);
+  const verifyUrl = await currentVerifyUrl(deps, welder.id);
   const qualifications: WalletCardQualification[] = list
     .filter((q) => q.status.state === 'current' || q.status.state === 'lapsing')
     .map(({ row, status }) => {

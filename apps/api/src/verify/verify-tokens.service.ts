@@ -94,19 +94,39 @@ export async function issueVerifyToken(
 }
 
 /**
- * The welder's verify URL, issuing a token if there is none yet (a printed card always links somewhere
- * that works). The caller has already checked that the actor may see the welder.
+ * The welder's live verify URL, or null when none is issued. A read: downloading a card or a WPQ never
+ * creates a token (that would silently replace what the panel shows and kill printed cards later); a
+ * token is issued only through POST /api/welders/:id/verify-token. The caller has already checked that
+ * the actor may see the welder.
+ */
+export async function currentVerifyUrl(deps: AppDeps, welderId: string): Promise<string | null> {
+  const existing = await activeToken(deps.dataSource.manager, welderId);
+  return existing ? urlOfSealed(deps, welderId, existing.tokenSealed) : null;
+}
+
+function urlOfSealed(deps: AppDeps, welderId: string, sealed: string): string | null {
+  try {
+    return verifyUrl(deps.config.appUrl, unsealToken(deps.config.jwtSecret, sealed));
+  } catch (err) {
+    // Sealed under another server secret (a data folder moved between secrets): print without a link.
+    deps.logger.warn({ err, welderId }, 'verify token cannot be unsealed with this server secret');
+    return null;
+  }
+}
+
+/**
+ * The welder's verify URL, issuing a token if there is none yet. Only for the demo seed, which prints
+ * nothing and acts as the QA manager would.
  */
 export async function ensureVerifyUrl(deps: AppDeps, actor: Actor, welderId: string): Promise<string> {
-  const existing = await activeToken(deps.dataSource.manager, welderId);
-  if (existing)
-    return verifyUrl(deps.config.appUrl, unsealToken(deps.config.jwtSecret, existing.tokenSealed));
+  const existing = await currentVerifyUrl(deps, welderId);
+  if (existing) return existing;
   return deps.dataSource.transaction(async (db) => {
     // Two downloads at once: the welder row lock makes the second one find the first one's token.
     await db.query(`SELECT id FROM welders WHERE id = $1 FOR UPDATE`, [welderId]);
     const again = await activeToken(db, welderId);
-    if (again) return verifyUrl(deps.config.appUrl, unsealToken(deps.config.jwtSecret, again.tokenSealed));
-    return issueIn(deps, db, actor, welderId);
+    const url = again ? urlOfSealed(deps, welderId, again.tokenSealed) : null;
+    return url ?? issueIn(deps, db, actor, welderId);
   });
 }
 
