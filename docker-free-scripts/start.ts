@@ -2,7 +2,7 @@
 // a fresh build of the web app, then the API serving web + API on one address. Ctrl-C stops it all.
 import path from 'node:path';
 import { startMailCatcher } from './mail-catcher.js';
-import { startObjectStore } from './object-store.js';
+import { startObjectStore, storeCredentials } from './object-store.js';
 import { keep, run, stop, tsx, waitForHealth } from './proc.js';
 
 const env = process.env;
@@ -46,7 +46,12 @@ process.on('SIGTERM', () => void shutdown(0));
 await must('PostgreSQL', run('bash', ['docker-free-scripts/pg.sh', 'start']));
 services = [
   await startMailCatcher({ port: Number(env.SMTP_PORT ?? 2525), dir: path.join(dataDir, 'mail') }),
-  await startObjectStore({ port: Number(env.S3_PORT ?? 4569), dir: path.join(dataDir, 's3'), bucket: env.S3_BUCKET ?? 'beadroll' }),
+  await startObjectStore({
+    port: Number(env.S3_PORT ?? 4569),
+    dir: path.join(dataDir, 's3'),
+    bucket: env.S3_BUCKET ?? 'beadroll',
+    credentials: storeCredentials(dataDir),
+  }),
 ];
 console.log(`beadroll: mail catcher on 127.0.0.1:${env.SMTP_PORT}, object store on 127.0.0.1:${env.S3_PORT}`);
 await must('migrations', run(...tsx('apps/api/src/db/migrate.ts'), { env: appEnv }));

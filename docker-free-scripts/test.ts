@@ -5,7 +5,7 @@ import { existsSync, readFileSync } from 'node:fs';
 import { rm, mkdir } from 'node:fs/promises';
 import path from 'node:path';
 import { startMailCatcher } from './mail-catcher.js';
-import { startObjectStore } from './object-store.js';
+import { startObjectStore, storeCredentials } from './object-store.js';
 import { keep, run, stop, tsx, waitForHealth, type RunResult } from './proc.js';
 
 const env = process.env;
@@ -108,7 +108,12 @@ if (wanted('integration') || wanted('e2e')) {
   }
   services = [
     await startMailCatcher({ port: Number(env.SMTP_PORT), dir: path.join(dataDir, 'mail') }),
-    await startObjectStore({ port: Number(env.S3_PORT), dir: path.join(dataDir, 's3'), bucket: 'beadroll' }),
+    await startObjectStore({
+      port: Number(env.S3_PORT),
+      dir: path.join(dataDir, 's3'),
+      bucket: 'beadroll',
+      credentials: storeCredentials(dataDir),
+    }),
   ];
 }
 

@@ -114,7 +114,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/overview', overviewRouter(deps, auth.requireAuth));
   api.use('/api-tokens', apiTokensRouter(deps, auth.requireAuth));
   api.use(openApiRouter());
-  if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps));
+  if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps, auth.requireAuth));
   api.use(apiNotFound);
   app.use('/api', api);
 

@@ -3,11 +3,13 @@
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
+import { devSecrets } from './dev-secrets.js';
 
 /** The repository root: relative DATA_DIR and WEB_DIST are resolved against it, whatever the cwd. */
 export const repoRoot = fileURLToPath(new URL('../../../', import.meta.url));
 
-const DEV_JWT_SECRET = 'beadroll-development-secret-not-for-production';
+/** The constant development secret of earlier versions: public, so refused as a production secret. */
+const OLD_DEV_JWT_SECRET = 'beadroll-development-secret-not-for-production';
 
 const bool = z
   .enum(['true', 'false', '1', '0', 'yes', 'no'])
@@ -39,8 +41,8 @@ const envSchema = z
     S3_ENDPOINT: z.preprocess(blankToUndefined, z.url().optional()),
     S3_REGION: z.string().min(1).default('us-east-1'),
     S3_BUCKET: z.string().min(1).default('beadroll'),
-    S3_ACCESS_KEY_ID: z.string().min(1).default('S3RVER'),
-    S3_SECRET_ACCESS_KEY: z.string().min(1).default('S3RVER'),
+    S3_ACCESS_KEY_ID: z.preprocess(blankToUndefined, z.string().min(1).optional()),
+    S3_SECRET_ACCESS_KEY: z.preprocess(blankToUndefined, z.string().min(1).optional()),
     S3_FORCE_PATH_STYLE: bool.default(true),
     DATA_DIR: z.string().min(1).default('.data'),
     JWT_SECRET: z.preprocess(blankToUndefined, z.string().min(32, 'Use at least 32 characters').optional()),
@@ -49,10 +51,25 @@ const envSchema = z
     LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
     VERIFY_RATE_LIMIT: z.coerce.number().int().min(1).default(60),
     LAPSE_WATCH_ENABLED: bool.optional(),
+    /** Development only: show /api/dev/mail to anyone on this machine, signed in or not. */
+    DEV_MAIL_OPEN: bool.default(false),
   })
   .superRefine((env, ctx) => {
-    if (env.NODE_ENV === 'production' && !env.JWT_SECRET)
-      ctx.addIssue({ code: 'custom', path: ['JWT_SECRET'], message: 'Required when NODE_ENV=production' });
+    if (env.NODE_ENV !== 'production') return;
+    // Production refuses to start on anything that only makes sense on a developer's machine.
+    const need = (key: keyof typeof env, message: string) => ctx.addIssue({ code: 'custom', path: [key], message });
+    if (!env.JWT_SECRET) need('JWT_SECRET', 'Required when NODE_ENV=production');
+    else if (env.JWT_SECRET === OLD_DEV_JWT_SECRET) need('JWT_SECRET', 'This is the public development secret; generate your own');
+    if (!env.APP_URL) need('APP_URL', 'Required when NODE_ENV=production: the https address people open');
+    else if (!env.APP_URL.startsWith('https://')) need('APP_URL', 'Must start with https:// in production');
+    if (env.SMTP_HOST === '127.0.0.1' && env.SMTP_PORT === 2525)
+      need('SMTP_HOST', 'Set the mail relay (SMTP_HOST, SMTP_PORT) in production; the default is the local mail catcher');
+    if (!env.S3_ENDPOINT) need('S3_ENDPOINT', 'Required when NODE_ENV=production: the object store of your bucket');
+    if (!env.S3_ACCESS_KEY_ID || env.S3_ACCESS_KEY_ID === 'S3RVER')
+      need('S3_ACCESS_KEY_ID', 'Required when NODE_ENV=production: the bucket’s access key');
+    if (!env.S3_SECRET_ACCESS_KEY || env.S3_SECRET_ACCESS_KEY === 'S3RVER')
+      need('S3_SECRET_ACCESS_KEY', 'Required when NODE_ENV=production: the bucket’s secret key');
+    if (env.DEV_MAIL_OPEN) need('DEV_MAIL_OPEN', 'Not allowed in production');
   });
 
 export type Env = Record<string, string | undefined>;
@@ -65,6 +82,14 @@ export function loadConfig(env: Env = process.env) {
   }
   const e = parsed.data;
   const fromRoot = (p: string) => (path.isAbsolute(p) ? p : path.join(repoRoot, p));
+  const dataDir = fromRoot(e.DATA_DIR);
+  // Outside production, what is not given comes from the data folder's own random secrets — read (or
+  // made) only when first needed, so merely loading a configuration writes nothing.
+  let secrets: ReturnType<typeof devSecrets> | undefined;
+  const dev = () => (secrets ??= devSecrets(dataDir));
+  const s3AccessKeyId = e.S3_ACCESS_KEY_ID;
+  const s3SecretAccessKey = e.S3_SECRET_ACCESS_KEY;
+  const jwtSecret = e.JWT_SECRET;
   return {
     nodeEnv: e.NODE_ENV,
     isProduction: e.NODE_ENV === 'production',
@@ -84,13 +109,20 @@ export function loadConfig(env: Env = process.env) {
       endpoint: e.S3_ENDPOINT ?? `http://127.0.0.1:${e.S3_PORT}`,
       region: e.S3_REGION,
       bucket: e.S3_BUCKET,
-      accessKeyId: e.S3_ACCESS_KEY_ID,
-      secretAccessKey: e.S3_SECRET_ACCESS_KEY,
+      get accessKeyId(): string {
+        return s3AccessKeyId ?? dev().s3AccessKeyId;
+      },
+      get secretAccessKey(): string {
+        return s3SecretAccessKey ?? dev().s3SecretAccessKey;
+      },
       forcePathStyle: e.S3_FORCE_PATH_STYLE,
     },
-    dataDir: fromRoot(e.DATA_DIR),
-    mailDir: path.join(fromRoot(e.DATA_DIR), 'mail'),
-    jwtSecret: e.JWT_SECRET ?? DEV_JWT_SECRET,
+    dataDir,
+    mailDir: path.join(dataDir, 'mail'),
+    get jwtSecret(): string {
+      return jwtSecret ?? dev().jwtSecret;
+    },
+    devMailOpen: e.DEV_MAIL_OPEN,
     appUrl: (e.APP_URL ?? `http://127.0.0.1:${e.PORT}`).replace(/\/+$/, ''),
     webDist: fromRoot(e.WEB_DIST),
     loginRateLimit: e.LOGIN_RATE_LIMIT,

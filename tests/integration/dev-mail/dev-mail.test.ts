@@ -34,21 +34,23 @@ describe('/api/dev/mail (development tool)', () => {
     await qa.post('/api/people').send({ email, name: 'Dev Mailer', role: 'qa_manager' }).expect(201);
     await waitForMail(api.config.mailDir, email);
 
-    const { items } = bodyOf(list, await request(api.app).get('/api/dev/mail').expect(200));
+    const { items } = bodyOf(list, await qa.get('/api/dev/mail').expect(200));
     const mine = items.find((m) => m.to.includes(email));
     expect(mine).toBeDefined();
     const dates = items.map((m) => m.date);
     expect([...dates].sort().reverse()).toEqual(dates);
 
-    const one = bodyOf(detail, await request(api.app).get(`/api/dev/mail/${mine!.id}`).expect(200));
+    const one = bodyOf(detail, await qa.get(`/api/dev/mail/${mine!.id}`).expect(200));
     expect(one.text).toContain('/set-password?token=');
     expect(one.html).toContain('Dev Mailer');
     expect(one.from).toContain('no-reply@beadroll.example');
   });
 
   it('answers 404 for unknown or path-like ids', async () => {
-    expect((await request(api.app).get('/api/dev/mail/nope-0000')).status).toBe(404);
-    expect((await request(api.app).get('/api/dev/mail/..%2F..%2Fetc%2Fpasswd')).status).toBe(404);
+    const world = await makeWorld(api.ds);
+    const qa = await signIn(api.app, world.qa.email, TEST_PASSWORD);
+    expect((await qa.get('/api/dev/mail/nope-0000')).status).toBe(404);
+    expect((await qa.get('/api/dev/mail/..%2F..%2Fetc%2Fpasswd')).status).toBe(404);
   });
 
   it('does not exist in production', async () => {

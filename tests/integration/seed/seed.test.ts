@@ -202,7 +202,18 @@ describe('the demo seed', () => {
       [`${root}node_modules/tsx/dist/cli.mjs`, 'apps/api/src/db/seed.ts'],
       {
         cwd: root,
-        env: { ...process.env, NODE_ENV: 'production', JWT_SECRET: 'x'.repeat(40), PGPORT: '1' },
+        env: {
+          ...process.env,
+          // A production configuration complete enough to start (config.ts refuses less).
+          NODE_ENV: 'production',
+          JWT_SECRET: 'x'.repeat(40),
+          APP_URL: 'https://beadroll.example.com',
+          SMTP_HOST: 'smtp.example.com',
+          S3_ENDPOINT: 'https://s3.example.com',
+          S3_ACCESS_KEY_ID: 'AKIAEXAMPLE',
+          S3_SECRET_ACCESS_KEY: 's'.repeat(40),
+          PGPORT: '1',
+        },
       },
     );
     const failure = await attempt.then(

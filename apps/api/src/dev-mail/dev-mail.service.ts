@@ -23,10 +23,18 @@ const ID = /^[A-Za-z0-9_-]{1,120}$/;
 const addresses = (a: AddressObject | AddressObject[] | undefined) =>
   (Array.isArray(a) ? a : a ? [a] : []).map((x) => x.text).join(', ');
 
-async function parse(dir: string, id: string): Promise<MailDetail> {
+/** Who may read a message: a test on its recipients' addresses (lower case). */
+export type MailFilter = (recipients: string[]) => boolean;
+export const everyMail: MailFilter = () => true;
+
+const addressesOf = (a: AddressObject | AddressObject[] | undefined) =>
+  (Array.isArray(a) ? a : a ? [a] : []).flatMap((x) => x.value.map((v) => (v.address ?? '').toLowerCase()));
+
+async function parse(dir: string, id: string): Promise<MailDetail & { recipients: string[] }> {
   const mail = await simpleParser(await readFile(path.join(dir, `${id}.eml`)));
   return {
     id,
+    recipients: [...addressesOf(mail.to), ...addressesOf(mail.cc), ...addressesOf(mail.bcc)],
     date: (mail.date ?? new Date(0)).toISOString(),
     from: addresses(mail.from),
     to: addresses(mail.to),
@@ -36,7 +44,7 @@ async function parse(dir: string, id: string): Promise<MailDetail> {
   };
 }
 
-export async function listMail(dir: string): Promise<{ items: MailSummary[] }> {
+export async function listMail(dir: string, may: MailFilter): Promise<{ items: MailSummary[] }> {
   let names: string[];
   try {
     names = await readdir(dir);
@@ -50,18 +58,22 @@ export async function listMail(dir: string): Promise<{ items: MailSummary[] }> {
     .map((n) => n.slice(0, -4))
     .filter((id) => ID.test(id))
     .sort()
-    .reverse()
-    .slice(0, LIST_LIMIT);
-  const items = await Promise.all(
-    ids.map((id) => parse(dir, id).then(({ text: _t, html: _h, ...summary }) => summary)),
-  );
+    .reverse();
+  const items: MailSummary[] = [];
+  for (let i = 0; i < ids.length && items.length < LIST_LIMIT; i += LIST_LIMIT) {
+    const batch = await Promise.all(ids.slice(i, i + LIST_LIMIT).map((id) => parse(dir, id)));
+    for (const { text: _t, html: _h, recipients, ...summary } of batch)
+      if (may(recipients) && items.length < LIST_LIMIT) items.push(summary);
+  }
   return { items };
 }
 
-export async function getMail(dir: string, id: string): Promise<MailDetail> {
+export async function getMail(dir: string, id: string, may: MailFilter): Promise<MailDetail> {
   if (!ID.test(id)) throw AppError.notFound('message');
   try {
-    return await parse(dir, id);
+    const { recipients, ...mail } = await parse(dir, id);
+    if (!may(recipients)) throw AppError.notFound('message');
+    return mail;
   } catch (err) {
     if ((err as { code?: string }).code === 'ENOENT') throw AppError.notFound('message');
     throw err;
