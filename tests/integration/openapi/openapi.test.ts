@@ -19,6 +19,7 @@ const openApiPath = (p: string) => p.replace(/:(\w+)/g, '{$1}');
 // Writes that take no body by design: the action is the whole request.
 const BODILESS = new Set([
   'post /auth/logout',
+  'post /auth/sessions/end-others',
   'post /people/:id/invitation',
   'post /welders/:id/account',
   'post /welders/:id/verify-token',

@@ -6,6 +6,7 @@ import type { AppDeps } from '../lib/context.js';
 import { pathParam } from '../lib/params.js';
 import { AppError } from '../lib/errors.js';
 import { actorOf, clearSessionCookie, sessionIdOf, setSessionCookie } from '../lib/auth.js';
+import { refuseApiTokens } from '../api-tokens/bearer.js';
 import * as auth from './auth.service.js';
 
 /** Counts attempts per client address and e-mail; a successful sign-in does not count. */
@@ -53,16 +54,16 @@ export function authRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
     res.status(204).end();
   });
 
-  router.get('/auth/sessions', requireAuth, async (req, res) => {
+  router.get('/auth/sessions', requireAuth, refuseApiTokens, async (req, res) => {
     res.json(await auth.listSessions(deps, actorOf(req)));
   });
 
   /** Signs out every other browser or device of the caller. */
-  router.post('/auth/sessions/end-others', requireAuth, async (req, res) => {
+  router.post('/auth/sessions/end-others', requireAuth, refuseApiTokens, async (req, res) => {
     res.json(await auth.endOwnSessions(deps, actorOf(req), null));
   });
 
-  router.delete('/auth/sessions/:id', requireAuth, async (req, res) => {
+  router.delete('/auth/sessions/:id', requireAuth, refuseApiTokens, async (req, res) => {
     const actor = actorOf(req);
     const id = pathParam(req, 'id');
     await auth.endOwnSessions(deps, actor, id);

@@ -45,6 +45,7 @@ import {
   reviewInput,
   reviewQueueSchema,
   revokeInput,
+  sessionListSchema,
   setPasswordInput,
   shopInput,
   shopSchema,
@@ -107,6 +108,9 @@ export const coreRouteDocs: RouteDoc[] = [
   { method: 'get', path: '/me', summary: 'The caller', tag: 'Sign-in', access: 'any', status: 200, response: meSchema },
   { method: 'post', path: '/auth/password-reset', summary: 'Ask for a password-reset e-mail', tag: 'Sign-in', access: 'public', body: passwordResetRequestInput, status: 202, response: status('accepted') },
   { method: 'get', path: '/auth/tokens/:token', summary: 'What an invitation or reset link is for', tag: 'Sign-in', access: 'public', status: 200, response: tokenInfoSchema },
+  { method: 'get', path: '/auth/sessions', summary: 'The caller’s signed-in browsers and devices', tag: 'Sign-in', access: 'session', status: 200, response: sessionListSchema },
+  { method: 'post', path: '/auth/sessions/end-others', summary: 'Sign out every other browser and device of the caller', tag: 'Sign-in', access: 'session', status: 200, response: z.object({ ended: z.number().int() }) },
+  { method: 'delete', path: '/auth/sessions/:id', summary: 'Sign out one of the caller’s browsers or devices', tag: 'Sign-in', access: 'session', status: 204, response: null },
   { method: 'post', path: '/auth/set-password', summary: 'Set a password from an invitation or reset link', tag: 'Sign-in', access: 'public', body: setPasswordInput, status: 200, response: meSchema },
 
   // shops, people, welders
@@ -172,8 +176,8 @@ export const coreRouteDocs: RouteDoc[] = [
   { method: 'get', path: '/openapi.json', summary: 'This description (OpenAPI 3.1)', tag: 'Health', access: 'public', status: 200, response: z.looseObject({ openapi: z.string(), paths: z.record(z.string(), z.unknown()) }) },
 
   // development only (never mounted in production)
-  { method: 'get', path: '/dev/mail', summary: 'Mail caught by the local catcher (development only)', tag: 'Development', access: 'public', status: 200, response: items(mailSummary) },
-  { method: 'get', path: '/dev/mail/:id', summary: 'One caught message (development only)', tag: 'Development', access: 'public', status: 200, response: mailSummary.extend({ text: z.string(), html: z.string() }) },
+  { method: 'get', path: '/dev/mail', summary: 'Mail caught by the local catcher, to the caller’s company (development only, this machine only)', tag: 'Development', access: 'session', status: 200, response: items(mailSummary) },
+  { method: 'get', path: '/dev/mail/:id', summary: 'One caught message (development only, this machine only)', tag: 'Development', access: 'session', status: 200, response: mailSummary.extend({ text: z.string(), html: z.string() }) },
 ];
 
 export function allRouteDocs(): RouteDoc[] {
