@@ -179,7 +179,7 @@ describe('qualifications (WPQs)', () => {
     expect((await auditRows(api.ds, world.weldersA[0]!.id)).map((a) => a.action)).toContain(
       'verify-token.issued',
     );
-  });
+  }, 60_000);
 
   it('lets a foreman read the qualifications of their shops but not revoke; a welder reads and downloads only their own', async () => {
     const { world, certify } = await certified();
