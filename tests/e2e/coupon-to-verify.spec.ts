@@ -116,6 +116,10 @@ describe('from the coupon to the Verify page', () => {
 
     // 3/8 in deposited: ASME IX QW-452.1(a) asks for two side bends, proposed by the form.
     await page.getByRole('group', { name: 'Specimen 2 (side)' }).waitFor();
+    // Nothing is judged before each specimen is marked examined.
+    await verdictOf(page).getByText('Not yet examined').waitFor();
+    await page.getByRole('checkbox', { name: 'Specimen 1 (side) examined' }).check();
+    await page.getByRole('checkbox', { name: 'Specimen 2 (side) examined' }).check();
     // The ranges preview names the clause behind its limits.
     await page.getByText('Qualified ranges if this coupon passes').waitFor();
     await page.getByText('QW-461.9', { exact: true }).first().waitFor();
@@ -202,7 +206,7 @@ describe('from the coupon to the Verify page', () => {
     await signOut(page);
     expect(pageErrors(page)).toEqual([]);
     await context.close();
-  });
+  }, 120_000);
 
   it('QA manager: attaches the WPS document, meets a concurrent edit as a plain conflict, and supersedes after confirming', async () => {
     const number = `E2E-DOC-${runId}`;

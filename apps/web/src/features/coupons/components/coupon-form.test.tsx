@@ -1,6 +1,6 @@
 // The coupon form's live computation in the browser: lengths read as typed, pipe OD and wall from NPS and
 // schedule, and the verdict panel following the discontinuities. Pure rules; no server is involved.
-import type { Welder } from '@beadroll/rules';
+import type { Procedure, Welder } from '@beadroll/rules';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { render, screen, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
@@ -18,7 +18,7 @@ const procedureId = '5a1d2c3b-4e5f-4a6b-8c7d-9e0f1a2b3c4d';
 
 /** A 3/8 in ASME IX plate in 3G with one side bend carrying the given sizes (all on its surface). */
 function draftWith(sizes: string[], over: Partial<CouponDraft> = {}): CouponDraft {
-  const specimen = newSpecimen('side');
+  const specimen = { ...newSpecimen('side'), examined: true };
   specimen.discontinuities = sizes.map((sizeText) => ({ ...newDiscontinuity(), sizeText }));
   return {
     ...emptyDraft({ welderId, shopId, code: 'asme-ix', process: 'SMAW', position: '3G' }),
@@ -30,7 +30,7 @@ function draftWith(sizes: string[], over: Partial<CouponDraft> = {}): CouponDraf
     examinerName: 'Test Examiner',
     visual: 'accept',
     specimensChosen: true,
-    specimens: [specimen, newSpecimen('side')],
+    specimens: [specimen, { ...newSpecimen('side'), examined: true }],
     ...over,
   };
 }
@@ -188,6 +188,14 @@ describe('the coupon form', () => {
     expect(screen.getByRole('group', { name: 'Specimen 1 (face)' })).toBeTruthy();
     expect(screen.getByRole('group', { name: 'Specimen 2 (root)' })).toBeTruthy();
     const panel = screen.getByRole('region', { name: 'Evaluation' });
+    // Nothing is judged before it is examined: visual first, then each specimen.
+    expect(within(panel).getByText('Not yet examined')).toBeTruthy();
+    expect(within(panel).queryByText('Accept')).toBeNull();
+    await user.selectOptions(screen.getByLabelText('Visual examination'), 'accept');
+    expect(within(panel).getByText(/Specimen 1 \(face\) is not/)).toBeTruthy();
+    await user.click(screen.getByRole('checkbox', { name: 'Specimen 1 (face) examined' }));
+    expect(within(panel).getByText(/Specimen 2 \(root\) is not/)).toBeTruthy();
+    await user.click(screen.getByRole('checkbox', { name: 'Specimen 2 (root) examined' }));
     expect(within(panel).getByText('Accept')).toBeTruthy();
 
     await user.click(screen.getByRole('button', { name: 'Add a discontinuity to Specimen 2 (root)' }));
@@ -237,5 +245,77 @@ describe('implausible sizes (common practice (no source): typing slips, refused 
     const a = analyseDraft(draftWith(['0']));
     expect(a.verdict).toBeNull();
     expect(a.errors['examination.specimens.0.discontinuities.0.sizeText']).toMatch(/A discontinuity of 0 in is not a plausible size/);
+  });
+});
+
+const procedure = (over: Partial<Procedure> = {}): Procedure => ({
+  id: procedureId,
+  number: 'HB-S12',
+  revision: '2',
+  code: 'asme-ix',
+  processes: ['SMAW'],
+  pNumbers: ['1', '1'],
+  fNumber: 4,
+  positions: [],
+  thicknessMin: null,
+  thicknessMax: null,
+  status: 'active',
+  document: null,
+  notes: '',
+  version: 1,
+  createdAt: '2026-01-05T10:00:00.000Z',
+  ...over,
+});
+
+describe('the coupon form offers what fits the coupon', () => {
+  it('fills the base metal P-Nos. and the F-No. from the WPS chosen', async () => {
+    const user = userEvent.setup();
+    renderForm({ welderId, code: 'asme-ix', process: 'SMAW' }, [procedure(), procedure({ id: 'c2b1a0f9-8e7d-4c6b-9a5f-4e3d2c1b0a99', number: 'HB-S20', pNumbers: ['8', '1'], fNumber: 5 })]);
+    await user.selectOptions(screen.getByLabelText('WPS'), 'HB-S12 rev 2');
+    expect(screen.getByLabelText<HTMLInputElement>('Base metal P-Nos.').value).toBe('1, 1');
+    expect(screen.getByLabelText<HTMLInputElement>('F-No.').value).toBe('4');
+    expect(screen.getByText('Filled from WPS HB-S12; change it if the coupon differs.')).toBeTruthy();
+    await user.selectOptions(screen.getByLabelText('WPS'), 'HB-S20 rev 2');
+    expect(screen.getByLabelText<HTMLInputElement>('Base metal P-Nos.').value).toBe('8, 1');
+    expect(screen.getByLabelText<HTMLInputElement>('F-No.').value).toBe('5');
+  });
+
+  it('offers a plate coupon no pipe positions and a pipe coupon no plate positions (ASME IX QW-461 positions, from memory)', async () => {
+    const user = userEvent.setup();
+    renderForm({ welderId, code: 'asme-ix', process: 'SMAW' });
+    const offered = () => within(screen.getByLabelText('Test position')).getAllByRole('option').map((o) => o.getAttribute('value')).filter(Boolean);
+    expect(offered()).toEqual(['1G', '2G', '3G', '4G', '3G+4G']);
+    await user.selectOptions(screen.getByLabelText('Test position'), '3G');
+    await user.selectOptions(screen.getByLabelText('Plate or pipe'), 'pipe');
+    expect(offered()).toEqual(['1G', '2G', '5G', '6G', '2G+5G']);
+    // 3G is not a pipe position: the choice is cleared rather than kept out of sight.
+    expect(screen.getByLabelText<HTMLSelectElement>('Test position').value).toBe('');
+    await user.selectOptions(screen.getByLabelText('Groove or fillet'), 'fillet');
+    expect(offered()).not.toContain('3F');
+    await user.selectOptions(screen.getByLabelText('Plate or pipe'), 'plate');
+    expect(offered()).not.toContain('5F');
+  });
+
+  it('names each acceptance criteria set once, without repeating itself', () => {
+    renderForm({ welderId, code: 'api-1104', process: 'SMAW' });
+    const labels = within(screen.getByLabelText('Acceptance criteria')).getAllByRole('option').map((o) => o.textContent ?? '');
+    expect(labels).toContain('ASME IX bend criteria (QW-163)');
+    expect(labels).toContain('API 1104 bend criteria');
+    for (const label of labels) {
+      for (const word of ['ASME', 'AWS', 'API', 'ISO', 'bend']) expect(label.split(word).length - 1, label).toBeLessThanOrEqual(1);
+      expect(label).not.toMatch(/asme-ix|aws-d1\.1|api-1104|shop-general/);
+    }
+  });
+
+  it('refuses to save while a specimen is not marked examined, naming it', () => {
+    const d = draftWith(['1/16']);
+    const second = d.specimens[1];
+    if (second) second.examined = false;
+    const a = analyseDraft(d);
+    expect(a.verdict).toBeNull();
+    expect(a.notExamined).toBe(true);
+    const { input, errors } = toRecordInput(d, a);
+    expect(input).toBeNull();
+    expect(errors['examination.specimens.1.examined']).toBe('Mark Specimen 2 (side) examined, or remove it');
   });
 });

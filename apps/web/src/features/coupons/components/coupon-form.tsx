@@ -3,12 +3,10 @@
 // the qualified ranges); saving sends the live verdict as claimedResult, and the server judges again.
 import {
   criteriaIds,
-  criteriaSets,
   lengthBounds,
   processes,
   processNames,
   testPositionNames,
-  testPositions,
   transferModes,
   type CouponRecord,
   type Procedure,
@@ -27,7 +25,10 @@ import { codeNames } from '@/lib/codes';
 import { useRecordCoupon } from '../api/record-coupon';
 import {
   analyseDraft,
+  criteriaLabel,
   emptyDraft,
+  fromProcedure,
+  positionsOffered,
   errorFor,
   newSpecimen,
   setLabel,
@@ -128,6 +129,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
   const setSpecimens = (specimens: SpecimenDraft[], path?: string) => change({ specimens, specimensChosen: true }, ...(path ? [path] : []));
 
   const chosenWelder = welders.find((w) => w.id === draft.welderId);
+  const chosenProcedure = procedures.find((p) => p.id === draft.procedureId);
   const offered = procedures.filter(
     (p) => p.status === 'active' && p.code === draft.code && draft.process !== '' && p.processes.includes(draft.process),
   );
@@ -197,7 +199,8 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               error={errorFor(errors, 'coupon.code')}
               onChange={(e) => {
                 const code = e.target.value as CouponDraft['code'];
-                change({ code, procedureId: '', criteria: code || draft.criteria }, 'coupon.code', 'procedureId', 'examination.criteria');
+                const position = positionsOffered(code, draft.form, draft.weld).some((p) => p === draft.position) ? draft.position : '';
+                change({ code, position, procedureId: '', criteria: code || draft.criteria }, 'coupon.code', 'procedureId', 'examination.criteria');
               }}
             >
               <option value="">Choose the code…</option>
@@ -231,7 +234,10 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               error={errorFor(errors, 'procedureId')}
               disabled={!draft.code || !draft.process}
               hint={!draft.code || !draft.process ? 'Choose the code and process first; only active WPSs of both are offered.' : offered.length === 0 ? 'No active WPS of this code covers this process. Add one under Procedures.' : undefined}
-              onChange={(e) => change({ procedureId: e.target.value }, 'procedureId')}
+              onChange={(e) => {
+                const p = offered.find((x) => x.id === e.target.value);
+                change({ procedureId: e.target.value, ...(p ? fromProcedure(p) : {}) }, 'procedureId', 'pNumbers', 'coupon.fNumber');
+              }}
             >
               <option value="">Choose the WPS…</option>
               {offered.map((p) => (
@@ -240,13 +246,21 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
                 </option>
               ))}
             </SelectField>
-            <TextField label="Base metal P-Nos." value={draft.pNumbersText} placeholder="1, or 8, 1" hint="As on the WPS; separate with commas." error={errorFor(errors, 'pNumbers')} onChange={(e) => change({ pNumbersText: e.target.value }, 'pNumbers')} />
+            <TextField label="Base metal P-Nos." value={draft.pNumbersText} placeholder="1, or 8, 1" hint={chosenProcedure ? `Filled from WPS ${chosenProcedure.number}; change it if the coupon differs.` : 'As on the WPS; separate with commas.'} error={errorFor(errors, 'pNumbers')} onChange={(e) => change({ pNumbersText: e.target.value }, 'pNumbers')} />
           </div>
         </Section>
 
         <Section title="The coupon">
           <div className="grid gap-3 sm:grid-cols-2">
-            <SelectField label="Plate or pipe" value={draft.form} onChange={(e) => change({ form: e.target.value as CouponDraft['form'] }, 'coupon.form', 'coupon.outsideDiameter', 'pipe')}>
+            <SelectField
+              label="Plate or pipe"
+              value={draft.form}
+              onChange={(e) => {
+                const form = e.target.value as CouponDraft['form'];
+                const position = positionsOffered(draft.code, form, draft.weld).some((p) => p === draft.position) ? draft.position : '';
+                change({ form, position }, 'coupon.form', 'coupon.outsideDiameter', 'pipe', 'coupon.position');
+              }}
+            >
               <option value="plate">Plate</option>
               <option value="pipe">Pipe</option>
             </SelectField>
@@ -260,9 +274,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
             </SelectField>
             <SelectField label="Test position" value={draft.position} error={errorFor(errors, 'coupon.position')} onChange={(e) => change({ position: e.target.value }, 'coupon.position')}>
               <option value="">Choose the position…</option>
-              {testPositions
-                .filter((p) => p.endsWith('F') === (draft.weld === 'fillet'))
-                .map((p) => (
+              {positionsOffered(draft.code, draft.form, draft.weld).map((p) => (
                   <option key={p} value={p}>
                     {p} · {testPositionNames[p]}
                   </option>
@@ -293,7 +305,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
             )}
             <SizeField label="Deposited weld metal thickness" positive bounds={lengthBounds.depositedThickness} value={draft.depositedText} error={errorFor(errors, 'coupon.depositedThickness')} onChange={(t) => change({ depositedText: t }, 'coupon.depositedThickness')} hint="By this welder with this process; the coupon thickness if left empty." placeholder="3/8, 10 mm" />
             <TextField label="Layers" inputMode="numeric" value={draft.layersText} error={errorFor(errors, 'coupon.layers')} onChange={(e) => change({ layersText: e.target.value }, 'coupon.layers')} />
-            <TextField label="F-No." inputMode="numeric" value={draft.fNumberText} error={errorFor(errors, 'coupon.fNumber')} hint="Filler metal F-Number; empty for no filler." onChange={(e) => change({ fNumberText: e.target.value }, 'coupon.fNumber')} />
+            <TextField label="F-No." inputMode="numeric" value={draft.fNumberText} error={errorFor(errors, 'coupon.fNumber')} hint={chosenProcedure?.fNumber != null ? `Filled from WPS ${chosenProcedure.number}.` : 'Filler metal F-Number; empty for no filler.'} onChange={(e) => change({ fNumberText: e.target.value }, 'coupon.fNumber')} />
             <SelectField
               label="Vertical progression"
               value={draft.progression}
@@ -327,7 +339,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               <SelectField label="Acceptance criteria" value={draft.criteria} error={errorFor(errors, 'examination.criteria')} onChange={(e) => change({ criteria: e.target.value as CouponDraft['criteria'] }, 'examination.criteria', 'claimedResult')}>
                 {criteriaIds.map((id) => (
                   <option key={id} value={id}>
-                    {criteriaSets[id].name} ({criteriaSets[id].clause})
+                    {criteriaLabel(id)}
                   </option>
                 ))}
               </SelectField>

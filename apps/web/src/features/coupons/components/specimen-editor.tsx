@@ -81,6 +81,15 @@ export function SpecimenEditor({
           <option value="root">Root bend</option>
           <option value="side">Side bend</option>
         </SelectField>
+        <div className="pb-1">
+          <Checkbox
+            label="Examined"
+            aria-label={`${name} examined`}
+            checked={specimen.examined}
+            onChange={(e) => onChange({ ...specimen, examined: e.target.checked }, `${at}.examined`)}
+          />
+          {errorFor(errors, `${at}.examined`) && <p className="text-sm text-red-700">{errorFor(errors, `${at}.examined`)}</p>}
+        </div>
         <Button variant="ghost" onClick={onRemove} aria-label={`Remove ${name}`}>
           Remove specimen
         </Button>

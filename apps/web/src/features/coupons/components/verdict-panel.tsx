@@ -7,8 +7,8 @@ import type { DraftAnalysis } from '../model/coupon-draft';
 export const VERDICT_CAUTION =
   'Live evaluation by Beadroll’s rules; the server evaluates again when you save. The code edition in force, the company’s quality manual and the responsible inspector govern.';
 
-export function VerdictPanel({ analysis }: { analysis: Pick<DraftAnalysis, 'verdict' | 'reasons' | 'notes' | 'incomplete' | 'evaluation'> }) {
-  const { verdict, reasons, notes, incomplete, evaluation } = analysis;
+export function VerdictPanel({ analysis }: { analysis: Pick<DraftAnalysis, 'verdict' | 'reasons' | 'notes' | 'incomplete' | 'evaluation'> & Partial<Pick<DraftAnalysis, 'notExamined'>> }) {
+  const { verdict, reasons, notes, incomplete, evaluation, notExamined } = analysis;
   return (
     <Card className="p-4">
       <section aria-live="polite" aria-label="Evaluation">
@@ -19,7 +19,10 @@ export function VerdictPanel({ analysis }: { analysis: Pick<DraftAnalysis, 'verd
               <StatusChip status={`coupon.${verdict}`} />
             </span>
           ) : (
-            <p className="text-sm text-stone-600">{incomplete ?? 'Record the examination to see the evaluation.'}</p>
+            <>
+              {notExamined && <p className="font-semibold text-stone-800">Not yet examined</p>}
+              <p className="text-sm text-stone-600">{incomplete ?? 'Record the examination to see the evaluation.'}</p>
+            </>
           )}
         </div>
         {reasons.length > 0 && (

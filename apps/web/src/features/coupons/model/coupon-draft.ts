@@ -4,11 +4,17 @@
 // ranges preview. Pure functions, so the component tests and the form agree on every answer.
 // Error keys are the API's dotted paths (coupon.thickness, examination.specimens.0.discontinuities.1.size),
 // so a 400 from the server lands on the same fields as the live checks.
+import { codeNames } from '@/lib/codes';
 import { firstMessage, readLength, type LengthRead } from '@/lib/lengths';
 import {
   couponRecordInput,
+  criteriaSets,
   evaluateBendTest,
   fieldsOf,
+  isFilletTest,
+  positionTables,
+  splitTestPosition,
+  testPositions,
   lengthBounds,
   pipeDimensions,
   proposeBendSpecimens,
@@ -23,9 +29,11 @@ import {
   type discontinuityTypes,
   type Length,
   type ParsedLength,
+  type Procedure,
   type Process,
   type Progression,
   type QualifiedRanges,
+  type TestPosition,
   type TransferMode,
   type Upload,
 } from '@beadroll/rules';
@@ -46,6 +54,8 @@ export interface DiscontinuityDraft {
 export interface SpecimenDraft {
   key: string;
   kind: SpecimenKind;
+  /** Marked once the specimen is bent and looked at; until every one is, there is no verdict. */
+  examined: boolean;
   discontinuities: DiscontinuityDraft[];
   photo: Upload | null;
 }
@@ -98,7 +108,7 @@ export const newDiscontinuity = (): DiscontinuityDraft => ({
   fusionRelated: false,
 });
 
-export const newSpecimen = (kind: SpecimenKind): SpecimenDraft => ({ key: newKey(), kind, discontinuities: [], photo: null });
+export const newSpecimen = (kind: SpecimenKind): SpecimenDraft => ({ key: newKey(), kind, examined: false, discontinuities: [], photo: null });
 
 export const todayIso = (): string => new Date().toISOString().slice(0, 10);
 
@@ -152,6 +162,32 @@ export function emptyDraft(prefill: DraftPrefill = {}): CouponDraft {
     report: null,
     notes: '',
   };
+}
+
+// ---- what the form offers -----------------------------------------------------------------------
+
+/** The test positions the rules know for the code and coupon form (any code's while none is chosen):
+ *  a plate coupon is never offered 5G or 6G, a pipe coupon never 3G or 4G. */
+export function positionsOffered(code: CodeId | '', form: 'plate' | 'pipe', weld: 'groove' | 'fillet'): TestPosition[] {
+  const known = new Set<string>();
+  for (const set of code ? [positionTables[code]] : Object.values(positionTables))
+    for (const tables of [set, ...Object.values(set.byProgression ?? {})]) Object.keys(tables[form]).forEach((p) => known.add(p));
+  return testPositions.filter((p) => isFilletTest(p) === (weld === 'fillet') && splitTestPosition(p).every((part) => known.has(part)));
+}
+
+/** The base metal P-Nos. and F-No. a WPS states, as the form's fields hold them (empty where it states none). */
+export const fromProcedure = (p: Pick<Procedure, 'pNumbers' | 'fNumber'>): Pick<CouponDraft, 'pNumbersText' | 'fNumberText'> => ({
+  pNumbersText: p.pNumbers.join(', '),
+  fNumberText: p.fNumber === null ? '' : String(p.fNumber),
+});
+
+/** 'ASME IX bend criteria (QW-163)', 'API 1104 bend criteria': the code once, and its clause only when it adds a number. */
+export function criteriaLabel(id: CriteriaId): string {
+  const set = criteriaSets[id];
+  if (id === 'shop-general') return set.name;
+  const code = codeNames[id];
+  const rest = set.clause.startsWith(code) ? set.clause.slice(code.length).trim() : set.clause;
+  return /\d/.test(rest) ? `${code} bend criteria (${rest})` : `${code} bend criteria`;
 }
 
 // ---- reading what was typed ---------------------------------------------------------------------
@@ -296,6 +332,8 @@ export interface DraftAnalysis {
   notes: VerdictReason[];
   /** Why there is no verdict yet. */
   incomplete: string | null;
+  /** No verdict because the visual examination or a specimen is not examined yet (not for a typing error). */
+  notExamined: boolean;
   /** Each discontinuity's size as read, by its key. */
   sizes: Record<string, ParsedLength>;
 }
@@ -403,13 +441,27 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
     incomplete = `Record the ${d.method === 'radiography' ? 'radiography' : 'ultrasonic examination'} result to see the evaluation.`;
   }
 
+  // Nothing is judged before it is examined: the visual examination first, then every specimen.
+  const unexamined = d.method === 'bend' ? d.specimens.findIndex((s) => !s.examined) : -1;
+  let notExamined = false;
+  if (d.visual === '' || unexamined >= 0) {
+    notExamined = true;
+    exam = null;
+    const which = unexamined >= 0 ? d.specimens[unexamined] : undefined;
+    incomplete =
+      d.visual === ''
+        ? 'Record the visual examination; it comes first.'
+        : which
+          ? `Mark each specimen examined once it is bent and looked at (${specimenLabel(which, unexamined)} is not).`
+          : incomplete;
+  }
+
   let verdict = exam;
   if (d.visual === 'reject') {
     reasons.unshift({ clause: 'Visual examination', message: 'Visual examination rejected', where: null });
     verdict = 'reject';
     incomplete = null;
-  } else if (d.visual === '' && verdict !== null) {
-    notes.unshift({ clause: 'Visual examination', message: 'The visual examination result is not recorded yet.', where: null });
+    notExamined = false;
   }
   if (exam && verdict && RANK[exam] > RANK[verdict]) verdict = exam;
 
@@ -423,6 +475,7 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
     reasons,
     notes,
     incomplete: verdict ? null : incomplete,
+    notExamined: verdict ? false : notExamined,
     sizes,
   };
 }
@@ -440,6 +493,10 @@ export const setLabel = (set: BendSpecimenProposal['options'][number]): string =
 /** The body of POST /api/coupons, checked with its schema; or the errors to show before sending. */
 export function toRecordInput(d: CouponDraft, a: DraftAnalysis): { input: CouponRecordInput | null; errors: Errors } {
   const errors: Errors = { ...a.errors };
+  if (d.method === 'bend' && d.visual !== 'reject')
+    d.specimens.forEach((s, i) => {
+      if (!s.examined) errors[`examination.specimens.${i}.examined`] = `Mark ${specimenLabel(s, i)} examined, or remove it`;
+    });
   if (d.method === 'bend')
     d.specimens.forEach((s, i) =>
       s.discontinuities.forEach((disc, j) => {
