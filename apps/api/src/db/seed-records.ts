@@ -308,7 +308,8 @@ const plans: Record<string, Plan[]> = {
 const passing = [
   { sizeText: '1/32', size: inch(1 / 32), type: 'porosity' as const },
   { sizeText: '1/16', size: inch(1 / 16), type: 'slag' as const, fusionRelated: true },
-  { sizeText: '0.8 mm', size: { value: 0.8, unit: 'mm' as const }, type: 'porosity' as const },
+  // One test is recorded in one unit system (the rules refuse a mix): these specimens are in inches.
+  { sizeText: '0.03 in', size: inch(0.03), type: 'porosity' as const },
   { sizeText: '3/64 in', size: inch(3 / 64), type: 'undercut' as const },
 ];
 // The rejects: an open discontinuity over the 1/8 in (3 mm) limit.
