@@ -109,7 +109,7 @@ function SizeHarness() {
   return <SizeField label="Size" value={text} onChange={setText} />;
 }
 
-describe('the size field', () => {
+describe('the size field', { timeout: 30_000 }, () => {
   it('reads fractions, mixed numbers and millimetres as they are typed, and names what does not read', async () => {
     const user = userEvent.setup();
     render(<SizeHarness />);
@@ -138,7 +138,7 @@ function PipeHarness() {
   return <PipeSizeFields nps={v.nps} schedule={v.schedule} errors={{}} onChange={(c) => setV((x) => ({ ...x, ...c }))} />;
 }
 
-describe('pipe by NPS and schedule', () => {
+describe('pipe by NPS and schedule', { timeout: 30_000 }, () => {
   it('fills OD 2.375 in and wall 0.218 in for NPS 2 Sch 80 (ASME B36.10M; the values TRADE.md §7 lists)', async () => {
     const user = userEvent.setup();
     render(<PipeHarness />);
@@ -165,7 +165,8 @@ const welder: Welder = {
   createdAt: '2026-01-05T10:00:00.000Z',
 };
 
-describe('the coupon form', () => {
+// Typing in a rendered form is slow on a shared machine: these get more than the 5 s default.
+describe('the coupon form', { timeout: 30_000 }, () => {
   it('proposes the bend specimens from the thickness and turns the verdict to Reject as a third discontinuity is typed', async () => {
     const user = userEvent.setup();
     const client = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
@@ -219,7 +220,7 @@ function renderForm(prefill: Parameters<typeof CouponForm>[0]['prefill'], proced
   );
 }
 
-describe('implausible sizes (common practice (no source): typing slips, refused as the API refuses them)', () => {
+describe('implausible sizes (common practice (no source): typing slips, refused as the API refuses them)', { timeout: 30_000 }, () => {
   it('refuses a thickness of 99999999 or 0 and a 400 mm deposit at the named field, and lists them on save', async () => {
     const user = userEvent.setup();
     renderForm({ welderId, code: 'asme-ix', process: 'SMAW', position: '1G' });
@@ -267,7 +268,7 @@ const procedure = (over: Partial<Procedure> = {}): Procedure => ({
   ...over,
 });
 
-describe('the coupon form offers what fits the coupon', () => {
+describe('the coupon form offers what fits the coupon', { timeout: 30_000 }, () => {
   it('fills the base metal P-Nos. and the F-No. from the WPS chosen', async () => {
     const user = userEvent.setup();
     renderForm({ welderId, code: 'asme-ix', process: 'SMAW' }, [procedure(), procedure({ id: 'c2b1a0f9-8e7d-4c6b-9a5f-4e3d2c1b0a99', number: 'HB-S20', pNumbers: ['8', '1'], fNumber: 5 })]);
