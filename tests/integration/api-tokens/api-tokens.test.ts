@@ -117,6 +117,8 @@ describe('API tokens', () => {
     await request(api.app).get('/api/welders').set('Authorization', `Basic ${token}`).expect(401);
 
     await qa.post(`/api/api-tokens/${apiToken.id}/revoke`).expect(200);
+    // Revoking again changes nothing and audits nothing more.
+    await qa.post(`/api/api-tokens/${apiToken.id}/revoke`).expect(200);
     const res = await request(api.app).get('/api/welders').set('Authorization', `Bearer ${token}`);
     expect(res.status).toBe(401);
     expect(errorOf(res).message).toMatch(/revoked/);

@@ -25,6 +25,8 @@ const BODILESS = new Set([
   'post /welders/:id/verify-token',
   'delete /welders/:id/verify-token',
   'post /api-tokens/:id/revoke',
+  'post /imports/:id/commit',
+  'post /imports/:id/cancel',
 ]);
 
 describe('GET /api/openapi.json', () => {

@@ -55,7 +55,8 @@ export async function revokeToken(
   by: string,
   at: Date,
 ): Promise<boolean> {
-  const rows: unknown[] = await db.query(
+  // UPDATE … RETURNING: TypeORM's postgres driver answers [rows, affected count].
+  const [rows] = await db.query<[unknown[], number]>(
     `UPDATE api_tokens SET revoked_at = $4, revoked_by = $3
       WHERE organization_id = $1 AND id = $2 AND revoked_at IS NULL RETURNING id`,
     [organizationId, id, by, at],

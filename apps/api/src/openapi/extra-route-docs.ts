@@ -1,4 +1,15 @@
-// Routes of the import, report and export features (issue 13), listed beside their own routers' schemas.
+// Routes of the import, report and export features (issue 13), listed beside the core table.
+import { importCheckInput, importListSchema, importSchema, importUploadFields } from '@beadroll/rules';
 import type { RouteDoc } from './route-docs.js';
 
-export const extraRouteDocs: RouteDoc[] = [];
+const qa = ['qa_manager'];
+
+export const extraRouteDocs: RouteDoc[] = [
+  { method: 'get', path: '/imports', summary: 'Recent imports', tag: 'Imports', access: 'session', roles: qa, status: 200, response: importListSchema },
+  { method: 'post', path: '/imports', summary: 'Upload a .csv or .xlsx file to import (nothing is written yet)', tag: 'Imports', access: 'session', roles: qa, multipart: importUploadFields, status: 201, response: importSchema },
+  { method: 'get', path: '/imports/:id', summary: 'An import: mapping, dry-run report, progress', tag: 'Imports', access: 'session', roles: qa, status: 200, response: importSchema },
+  { method: 'post', path: '/imports/:id/check', summary: 'Dry run with a column mapping and date format', tag: 'Imports', access: 'session', roles: qa, body: importCheckInput, status: 200, response: importSchema },
+  { method: 'post', path: '/imports/:id/commit', summary: 'Commit a checked import (all or nothing); poll for progress', tag: 'Imports', access: 'session', roles: qa, status: 202, response: importSchema },
+  { method: 'post', path: '/imports/:id/cancel', summary: 'Cancel a running import (nothing is written)', tag: 'Imports', access: 'session', roles: qa, status: 200, response: importSchema },
+];
+

@@ -1,0 +1,177 @@
+// Import of continuity history: welder stamp, process, the day (or only the month) of use, the job, and
+// optionally the shop (default: the welder's home shop) and a note. Each row is checked with the same
+// schema as a cell of the Continuity log.
+// The log keeps one use per welder, process, shop and month (the grid's cell); several rows for one cell
+// fold into it, keeping the latest day (the one that carries continuity furthest) — the report says so.
+// A month without a day counts as its first day: the earliest the use can have been, never later.
+import { gridSaveInput } from '@beadroll/rules';
+import { refreshContinuityPairs } from '../continuity/continuity-state.repository.js';
+import {
+  addZodIssues,
+  batches,
+  Columns,
+  Findings,
+  type FieldDef,
+  type ImportPlan,
+  type KindDef,
+  type PlanContext,
+  breathe,
+  type Tick,
+} from './import-plan.js';
+import { dateHint, parseDay, parseMonth } from './cells.js';
+
+const cellSchema = gridSaveInput.shape.cells.unwrap().unwrap().element;
+
+const fields: FieldDef[] = [
+  { key: 'stamp', label: 'Stamp', required: true, hint: 'The welder’s stamp', aliases: ['welder stamp', 'welder', 'stamp no', 'welder id'] },
+  { key: 'process', label: 'Process', required: true, hint: 'SMAW, GTAW, GMAW, FCAW, SAW, PAW or OFW', aliases: ['welding process', 'proc'] },
+  { key: 'date', label: 'Date or month', required: true, hint: 'The day of use, or the month (YYYY-MM) when only that is known', aliases: ['used on', 'date used', 'month', 'day', 'weld date'] },
+  { key: 'job', label: 'Job', required: true, hint: 'The job or traveler number', aliases: ['job number', 'job no', 'job reference', 'traveler', 'work order'] },
+  { key: 'shop', label: 'Shop', required: false, hint: 'The shop’s code or name (default: the welder’s home shop)', aliases: ['shop code', 'location'] },
+  { key: 'note', label: 'Note', required: false, hint: 'Optional', aliases: ['notes', 'remark', 'remarks', 'comment'] },
+];
+
+interface Cell {
+  line: number;
+  welderId: string;
+  shopId: string;
+  process: string;
+  month: string;
+  usedOn: string;
+  job: string;
+  note: string;
+}
+
+async function plan(ctx: PlanContext): Promise<ImportPlan> {
+  const { db, actor, sheet } = ctx;
+  const cols = new Columns(fields, ctx);
+  const findings = new Findings();
+  const shops = await db.query<{ id: string; code: string; name: string }[]>(
+    `SELECT id, code, name FROM shops WHERE organization_id = $1`,
+    [actor.organizationId],
+  );
+  const shopByKey = new Map<string, string>();
+  for (const s of shops) {
+    shopByKey.set(s.code.toLowerCase(), s.id);
+    shopByKey.set(s.name.toLowerCase(), s.id);
+  }
+  const welders = new Map(
+    (
+      await db.query<{ id: string; stamp: string; homeShopId: string }[]>(
+        `SELECT id, stamp, home_shop_id AS "homeShopId" FROM welders WHERE organization_id = $1`,
+        [actor.organizationId],
+      )
+    ).map((w) => [w.stamp, w]),
+  );
+
+  const cells = new Map<string, Cell>();
+  let folded = 0;
+  for (const [i, row] of sheet.rows.entries()) {
+    if (i % 2000 === 1999) await breathe();
+    const stamp = cols.get(row, 'stamp').toUpperCase();
+    const welder = welders.get(stamp);
+    if (stamp && !welder)
+      findings.add(row.line, cols.header('stamp'), `No welder with stamp ${stamp} in your company; import or add the welder first`);
+    const dateText = cols.get(row, 'date');
+    const day = parseDay(dateText, ctx.dateFormat);
+    const month = day ? null : parseMonth(dateText);
+    const usedOn = day ?? month;
+    if (dateText && !usedOn)
+      findings.add(row.line, cols.header('date'), `“${dateText}” is not a date as ${dateHint[ctx.dateFormat]}, nor a month as YYYY-MM`);
+    if (usedOn && usedOn > ctx.today) findings.add(row.line, cols.header('date'), `${usedOn} is in the future`);
+    const shopText = cols.get(row, 'shop');
+    const shopId = shopText ? shopByKey.get(shopText.toLowerCase()) : welder?.homeShopId;
+    if (shopText && !shopId) findings.add(row.line, cols.header('shop'), `No shop “${shopText}” in your company`);
+    const parsed = cellSchema.safeParse({
+      welderId: welder?.id ?? '00000000-0000-4000-8000-000000000000',
+      process: cols.get(row, 'process').toUpperCase(),
+      usedOn: usedOn ?? '2000-01-01',
+      jobReference: cols.get(row, 'job'),
+      note: cols.get(row, 'note'),
+    });
+    if (!parsed.success) addZodIssues(findings, cols, row.line, parsed.error, { welderId: 'stamp', usedOn: 'date', jobReference: 'job' });
+    if (!stamp) findings.add(row.line, cols.header('stamp'), 'Required');
+    if (!dateText) findings.add(row.line, cols.header('date'), 'Required');
+    if (findings.has(row.line) || !parsed.success || !welder || !usedOn || !shopId) continue;
+    const c = parsed.data;
+    const key = `${welder.id}|${c.process}|${shopId}|${usedOn.slice(0, 7)}`;
+    const cell: Cell = { line: row.line, welderId: welder.id, shopId, process: c.process, month: `${usedOn.slice(0, 7)}-01`, usedOn, job: c.jobReference, note: c.note };
+    const prior = cells.get(key);
+    if (prior) {
+      folded++;
+      if (usedOn > prior.usedOn || (usedOn === prior.usedOn && c.jobReference > prior.job)) cells.set(key, cell);
+    } else cells.set(key, cell);
+  }
+  for (const m of cols.missing()) findings.add(1, null, `Choose the column that holds “${m}”`);
+  if (folded > 0)
+    findings.notes.push(
+      `${folded} row(s) fall in the same welder, process, shop and month as another row; the log keeps one use per month, the latest day.`,
+    );
+
+  // Compare with what the log holds for these welders.
+  const list = [...cells.values()];
+  const existing = new Map<string, { usedOn: string; job: string; note: string }>();
+  const welderIds = [...new Set(list.map((c) => c.welderId))];
+  for (const b of batches(welderIds, 5000)) {
+    const rows = await db.query<{ key: string; usedOn: string; job: string; note: string }[]>(
+      `SELECT welder_id || '|' || process || '|' || shop_id || '|' || to_char(month, 'YYYY-MM') AS key,
+              to_char(used_on, 'YYYY-MM-DD') AS "usedOn", job_reference AS job, note
+         FROM continuity_entries WHERE organization_id = $1 AND welder_id = ANY ($2::uuid[])`,
+      [actor.organizationId, b],
+    );
+    for (const r of rows) existing.set(r.key, r);
+  }
+  const stampOf = new Map([...welders.values()].map((w) => [w.id, w.stamp]));
+  const writes: Cell[] = [];
+  for (const [key, c] of cells) {
+    const old = existing.get(key);
+    if (!old) {
+      findings.counts.new++;
+      writes.push(c);
+    } else if (old.usedOn === c.usedOn && old.job === c.job && old.note === c.note) findings.counts.unchanged++;
+    else {
+      findings.change(c.line, `${stampOf.get(c.welderId)} ${c.process} ${c.month.slice(0, 7)}`, { usedOn: old.usedOn, job: old.job, note: old.note }, { usedOn: c.usedOn, job: c.job, note: c.note });
+      writes.push(c);
+    }
+  }
+
+  return {
+    report: findings.report(sheet.rows.length),
+    async apply(db, tick: Tick) {
+      let done = 0;
+      for (const b of batches(writes, 5000)) {
+        await db.query(
+          `INSERT INTO continuity_entries AS e
+                  (organization_id, welder_id, shop_id, process, month, used_on, job_reference, note, logged_by)
+           SELECT $1, u.welder_id, u.shop_id, u.process, u.month, u.used_on, u.job, u.note, $2
+             FROM unnest($3::uuid[], $4::uuid[], $5::text[], $6::date[], $7::date[], $8::text[], $9::text[])
+                  AS u(welder_id, shop_id, process, month, used_on, job, note)
+           ON CONFLICT ON CONSTRAINT continuity_entries_cell_key DO UPDATE
+              SET used_on = EXCLUDED.used_on, job_reference = EXCLUDED.job_reference, note = EXCLUDED.note,
+                  logged_by = EXCLUDED.logged_by, updated_at = now(), version = e.version + 1
+            WHERE (e.used_on, e.job_reference, e.note) IS DISTINCT FROM (EXCLUDED.used_on, EXCLUDED.job_reference, EXCLUDED.note)`,
+          [
+            actor.organizationId,
+            actor.id,
+            b.map((c) => c.welderId),
+            b.map((c) => c.shopId),
+            b.map((c) => c.process),
+            b.map((c) => c.month),
+            b.map((c) => c.usedOn),
+            b.map((c) => c.job),
+            b.map((c) => c.note),
+          ],
+        );
+        done += b.length;
+        await tick('writing', done, writes.length);
+      }
+      // The continuity state of every touched (welder, process), refreshed once, set-based.
+      await tick('refreshing continuity', done, writes.length);
+      const pairs = [...new Map(writes.map((c) => [`${c.welderId}|${c.process}`, { welderId: c.welderId, process: c.process }])).values()];
+      await refreshContinuityPairs(db, pairs);
+      return { written: writes.length, pairs: pairs.length };
+    },
+  };
+}
+
+export const continuityImport: KindDef = { fields, plan };
