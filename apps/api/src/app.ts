@@ -45,6 +45,7 @@ export function createApp(opts: CreateAppOptions): Express {
   const { config, logger, dataSource } = deps;
   const app = express();
   app.disable('x-powered-by');
+  app.set('trust proxy', config.trustProxy);
 
   app.use(
     pinoHttp({

@@ -48,7 +48,10 @@ const envSchema = z
     JWT_SECRET: z.preprocess(blankToUndefined, z.string().min(32, 'Use at least 32 characters').optional()),
     APP_URL: z.preprocess(blankToUndefined, z.url().optional()),
     WEB_DIST: z.string().min(1).default('apps/web/dist'),
-    LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).default(10),
+    LOGIN_RATE_LIMIT: z.coerce.number().int().min(1).max(1000).default(10),
+    LOGIN_ADDRESS_LIMIT: z.coerce.number().int().min(1).max(100000).default(20),
+    /** Express 'trust proxy': how to find the client address behind a load balancer (e.g. loopback, 1). */
+    TRUST_PROXY: z.preprocess(blankToUndefined, z.string().max(200).optional()),
     VERIFY_RATE_LIMIT: z.coerce.number().int().min(1).default(60),
     LAPSE_WATCH_ENABLED: bool.optional(),
     /** Development only: show /api/dev/mail to anyone on this machine, signed in or not. */
@@ -125,7 +128,11 @@ export function loadConfig(env: Env = process.env) {
     devMailOpen: e.DEV_MAIL_OPEN,
     appUrl: (e.APP_URL ?? `http://127.0.0.1:${e.PORT}`).replace(/\/+$/, ''),
     webDist: fromRoot(e.WEB_DIST),
+    /** Refused passwords per account within 15 minutes before it is held back (with backoff). */
     loginRateLimit: e.LOGIN_RATE_LIMIT,
+    /** Refused passwords per client address within 15 minutes, across all accounts. */
+    loginAddressLimit: e.LOGIN_ADDRESS_LIMIT,
+    trustProxy: e.TRUST_PROXY === undefined ? false : /^\d+$/.test(e.TRUST_PROXY) ? Number(e.TRUST_PROXY) : e.TRUST_PROXY === 'true' ? true : e.TRUST_PROXY,
     /** Public verify page look-ups per client address per minute. */
     verifyRateLimit: e.VERIFY_RATE_LIMIT,
     /** The daily lapse-watch schedule in this instance (off under test unless asked for). */

@@ -17,7 +17,9 @@ import { recordAudit } from '../lib/audit.js';
 import { clipText } from '../lib/text.js';
 import { SESSION_HOURS, signSession } from '../lib/auth.js';
 import { listShopRefs } from '../shops/shops.service.js';
+import { ipKeyGenerator } from 'express-rate-limit';
 import * as repo from './auth.repository.js';
+import * as throttle from './throttle.repository.js';
 import type { TokenPurpose } from './auth-token.entity.js';
 import { hashPassword, verifyPassword } from './passwords.js';
 import { invitationMail, passwordResetMail } from './auth.mail.js';
@@ -65,14 +67,47 @@ async function signIn(deps: AppDeps, userId: string, client: ClientInfo): Promis
 const clip = (s: string, max: number) =>
   clipText(s.replace(/[^\x20-\x7e\u00a0-\ud7ff\ue000-\uffff\u{10000}-\u{10ffff}]/gu, ''), max);
 
+/** The account and the client address a sign-in is counted against (IPv6: its /56 network). */
+function throttleKeys(deps: AppDeps, email: string, client: ClientInfo): throttle.ThrottleKey[] {
+  return [
+    { kind: 'account', key: email, limit: deps.config.loginRateLimit },
+    { kind: 'address', key: ipKeyGenerator(client.address || 'unknown'), limit: deps.config.loginAddressLimit },
+  ];
+}
+
+/**
+ * Signing in. Refused passwords are counted per account and per client address in PostgreSQL (every
+ * instance sees them); past a limit the key is held back with a growing wait, and the answer is 429
+ * whatever the password. Only a refused password counts — a database outage fails before counting.
+ * A held-back account is still reachable through a password reset link, which clears its count.
+ */
 export async function login(
   deps: AppDeps,
   input: LoginInput,
   client: ClientInfo,
 ): Promise<{ token: string; me: Me }> {
-  const user = await repo.findSignIn(deps.dataSource.manager, input.email);
+  const db = deps.dataSource.manager;
+  const now = deps.clock.now();
+  const keys = throttleKeys(deps, input.email, client);
+  const until = await throttle.heldUntil(db, keys, now);
+  if (until) {
+    const seconds = Math.max(1, Math.ceil((until.getTime() - now.getTime()) / 1000));
+    const wait = seconds > 90 ? `${Math.ceil(seconds / 60)} minutes` : `${seconds} seconds`;
+    throw new AppError(
+      'rate_limited',
+      `Too many sign-in attempts; try again in ${wait}, or reset your password by e-mail`,
+      429,
+      undefined,
+      seconds,
+    );
+  }
+  const user = await repo.findSignIn(db, input.email);
   const ok = await verifyPassword(user?.passwordHash ?? null, input.password);
-  if (!user || !ok || !user.active) throw new AppError('unauthenticated', WRONG_SIGN_IN);
+  if (!user || !ok || !user.active) {
+    await throttle.recordFailure(db, keys, now);
+    throw new AppError('unauthenticated', WRONG_SIGN_IN);
+  }
+  await throttle.clearAccount(db, input.email);
   return signIn(deps, user.id, client);
 }
 
@@ -206,6 +241,7 @@ export async function setPassword(
     const row = await repo.findValidToken(db, tokenHash, now, true);
     if (!row) throw AppError.validation({ token: BAD_LINK }, BAD_LINK);
     await repo.setPasswordHash(db, row.userId, passwordHash);
+    await throttle.clearAccount(db, row.email);
     await repo.voidTokens(db, row.userId, now);
     const self: Actor = {
       id: row.userId,

@@ -23,6 +23,7 @@ import { ContinuityIndexes1764979200000 } from './migrations/1764979200000-conti
 import { ImportsAndApiTokens1765700000000 } from './migrations/1765700000000-imports-and-api-tokens.js';
 import { Sessions1765500000000 } from './migrations/1765500000000-sessions.js';
 import { ImportPhase1765700000001 } from './migrations/1765700000001-import-phase.js';
+import { SignInThrottle1765500000001 } from './migrations/1765500000001-sign-in-throttle.js';
 import { CompanySettingsEntity } from '../settings/company-settings.entity.js';
 import { LapseNoticeEntity, LapseWatchRunEntity, NoticeDeliveryEntity } from '../lapse-watch/lapse-watch.entity.js';
 
@@ -47,7 +48,7 @@ export const entities = [
   LapseNoticeEntity,
   NoticeDeliveryEntity,
 ];
-export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001];
+export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001];
 
 export interface DataSourceOptions {
   /** Pool size; the API default suits one instance on a small machine. */

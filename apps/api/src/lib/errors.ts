@@ -28,6 +28,8 @@ export class AppError extends Error {
     message: string,
     status?: number,
     readonly fields?: Record<string, string>,
+    /** Seconds after which a 429 or 503 may be tried again (sent as Retry-After). */
+    readonly retryAfter?: number,
   ) {
     super(message);
     this.name = 'AppError';
@@ -164,6 +166,7 @@ export function errorHandler(logger: Logger): ErrorRequestHandler {
     const requestId = typeof req.id === 'string' || typeof req.id === 'number' ? String(req.id) : '';
     if (known) {
       if (known.status >= 500) logger.warn({ err, requestId }, known.message);
+      if (known.retryAfter !== undefined) res.setHeader('Retry-After', String(known.retryAfter));
       res.status(known.status).json(errorBody(known));
       return;
     }
