@@ -12,6 +12,7 @@ import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
 import { clipText } from '../lib/text.js';
+import { activePdfContent, jpegWithoutTrailer, pngWithoutTrailer } from './content-checks.js';
 import * as repo from './uploads.repository.js';
 
 export const MAX_UPLOAD_BYTES = 15 * 1024 * 1024;
@@ -67,9 +68,10 @@ export async function createUpload(
       'This file cannot be attached',
     );
   const contentType = detected.mime.replace(/-sequence$/, '');
+  const body = keepOnlyContent(contentType, file.buffer);
   const storageKey = `uploads/${actor.organizationId}/${randomUUID()}`;
   const fileName = cleanFileName(file.originalname);
-  await deps.storage.put(storageKey, file.buffer, contentType);
+  await deps.storage.put(storageKey, body, contentType);
   try {
     return await deps.dataSource.transaction(async (db) => {
       const now = deps.clock.now();
@@ -78,8 +80,8 @@ export async function createUpload(
         storageKey,
         fileName,
         contentType,
-        size: file.buffer.byteLength,
-        sha256: createHash('sha256').update(file.buffer).digest('hex'),
+        size: body.byteLength,
+        sha256: createHash('sha256').update(body).digest('hex'),
         kind: kind.data,
         uploadedBy: actor.id,
         createdAt: now,
@@ -100,6 +102,22 @@ export async function createUpload(
     });
     throw err;
   }
+}
+
+/** The bytes to keep: an active PDF is refused; an image loses anything after its end marker. */
+function keepOnlyContent(contentType: string, bytes: Buffer): Buffer {
+  if (contentType === 'application/pdf') {
+    const active = activePdfContent(bytes);
+    if (active)
+      throw AppError.validation(
+        { file: `This PDF acts when opened (${active}); attach a plain PDF, for example printed to PDF again` },
+        'This file cannot be attached',
+      );
+    return bytes;
+  }
+  if (contentType === 'image/png') return pngWithoutTrailer(bytes);
+  if (contentType === 'image/jpeg') return jpegWithoutTrailer(bytes);
+  return bytes;
 }
 
 async function findOrThrow(deps: AppDeps, actor: Actor, id: string) {
