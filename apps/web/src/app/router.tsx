@@ -66,6 +66,7 @@ export function createRouter(queryClient: QueryClient) {
         { path: paths.continuity.path, lazy: page(() => import('./routes/app/continuity')) },
         { path: paths.lapseWatch.path, lazy: page(() => import('./routes/app/lapse-watch')) },
         { path: paths.settings.path, lazy: page(() => import('./routes/app/settings')) },
+        { path: paths.imports.path, lazy: page(() => import('./routes/app/imports')) },
         { path: paths.account.path, lazy: page(() => import('./routes/app/account')) },
         { path: '*', lazy: page(() => import('./routes/app/not-found')) },
           ],

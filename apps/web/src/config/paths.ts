@@ -28,6 +28,7 @@ export const paths = {
   continuity: { path: '/continuity', href: (search?: string) => (search ? `/continuity?${search}` : '/continuity') },
   lapseWatch: { path: '/lapse-watch', href: () => '/lapse-watch' },
   settings: { path: '/settings', href: () => '/settings' },
+  imports: { path: '/imports', href: () => '/imports' },
   account: { path: '/account', href: () => '/account' },
   coupon: { path: '/coupons/:id', href: (id: string) => `/coupons/${encodeURIComponent(id)}` },
   verify: { path: '/verify/:token', href: (token: string) => `/verify/${encodeURIComponent(token)}` },

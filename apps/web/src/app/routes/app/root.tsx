@@ -30,6 +30,7 @@ export function navigationFor(me: Me): NavItem[] {
         { label: 'Shops', to: paths.shops.href() },
         { label: 'People', to: paths.people.href() },
         { label: 'Lapse watch', to: paths.lapseWatch.href() },
+        { label: 'Imports', to: paths.imports.href() },
         { label: 'Settings', to: paths.settings.href() },
         { label: 'Audit trail', to: paths.audit.href() },
       ];
