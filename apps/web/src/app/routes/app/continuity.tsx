@@ -18,10 +18,15 @@ import {
   addWelder,
   cellErrors,
   changedCells,
+  cellKey,
   draftFromGrid,
   fillDown,
+  rebaseDraft,
   saveBody,
   setCell,
+  takeTheirs,
+  undatedCells,
+  usesAfterLapse,
   type CellValue,
   type FillScope,
   type GridDraft,
@@ -47,8 +52,11 @@ function ContinuityScreen() {
   const activeShops = (shops.data ?? []).filter((s) => s.active);
   const shopId = params.get('shopId') ?? activeShops[0]?.id ?? '';
   const month = isMonth(params.get('month')) ? params.get('month')! : thisMonth();
-  const choose = (changes: Record<string, string>) =>
-    setParams({ shopId, month, ...changes }, { replace: true });
+  // Unsaved edits of the month on screen: changing shop or month asks before throwing them away.
+  const [dirty, setDirty] = useState(false);
+  const [pending, setPending] = useState<Record<string, string> | null>(null);
+  const go = (changes: Record<string, string>) => setParams({ shopId, month, ...changes }, { replace: true });
+  const choose = (changes: Record<string, string>) => (dirty ? setPending(changes) : go(changes));
 
   return (
     <>
@@ -80,14 +88,29 @@ function ContinuityScreen() {
       ) : !shopId ? (
         <EmptyState title="No shop to log for">You are not assigned to a shop yet. Ask the QA manager to assign you.</EmptyState>
       ) : (
-        <MonthGrid key={`${shopId}:${month}`} shopId={shopId} month={month} />
+        <MonthGrid key={`${shopId}:${month}`} shopId={shopId} month={month} onDirtyChange={setDirty} />
       )}
+      <ConfirmDialog
+        open={pending !== null}
+        title="Discard unsaved changes?"
+        confirmLabel="Discard and switch"
+        onConfirm={() => {
+          if (pending) go(pending);
+          setPending(null);
+          setDirty(false);
+        }}
+        onCancel={() => setPending(null)}
+      >
+        {`The ${month} log has changes that are not saved. Switching to another shop or month throws them away.`}
+      </ConfirmDialog>
     </>
   );
 }
 
-function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
+function MonthGrid({ shopId, month, onDirtyChange }: { shopId: string; month: string; onDirtyChange: (dirty: boolean) => void }) {
   const me = useUser();
+  const [conflicts, setConflicts] = useState<Record<string, string>>({});
+  const [lateUse, setLateUse] = useState<ReturnType<typeof usesAfterLapse>>([]);
   const grid = useQuery(continuityQueries.grid(shopId, month));
   const [draft, setDraft] = useState<GridDraft | null>(null);
   const save = useSaveGrid();
@@ -101,6 +124,7 @@ function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
 
   const changes = draft ? changedCells(draft).length : 0;
   const dirty = changes > 0;
+  useEffect(() => onDirtyChange(dirty), [dirty, onDirtyChange]);
   const blocker = useBlocker(({ currentLocation, nextLocation }) => dirty && currentLocation.pathname !== nextLocation.pathname);
   useEffect(() => {
     if (!dirty) return;
@@ -113,9 +137,13 @@ function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
     setSaved(false);
     setDraft((d) => (d ? setCell(d, welderId, process, patch) : d));
   }, []);
-  const onFill = useCallback((process: string, scope: FillScope, jobReference?: string) => {
+  const onFill = useCallback((process: string, scope: FillScope, jobReference?: string, usedOn?: string) => {
     setSaved(false);
-    setDraft((d) => (d ? fillDown(d, process, scope, jobReference) : d));
+    setDraft((d) => (d ? fillDown(d, process, scope, jobReference, usedOn) : d));
+  }, []);
+  const onTakeTheirs = useCallback((welderId: string, process: string) => {
+    setDraft((d) => (d ? takeTheirs(d, welderId, process) : d));
+    setConflicts(({ [cellKey(welderId, process)]: _gone, ...rest }) => rest);
   }, []);
 
   if (grid.isPending || (grid.data && !draft)) return <LoadingState label="Loading the month…" />;
@@ -123,23 +151,46 @@ function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
   if (!draft) return null;
 
   const readOnly = draft.closed && me.role !== 'qa_manager';
-  const submit = () => {
+  const send = () => {
     const body = saveBody(draft);
     setErrors({});
     setFormError(undefined);
+    setLateUse([]);
     save.mutate(body, {
       onSuccess: (next) => {
         setDraft(draftFromGrid(next));
+        setConflicts({});
         setSaved(true);
       },
       onError: (error) => {
-        if (isApiError(error) && error.status === 400 && Object.keys(error.fields).length) {
+        if (isApiError(error) && error.status === 409 && Object.keys(error.fields).length) {
+          // Someone else changed some of these cells: show their values with the user's edits laid over
+          // them (on the current versions), name whose change won, and let the user reapply or keep theirs.
+          const mapped = cellErrors(body, error.fields);
+          setConflicts(Object.fromEntries(Object.entries(mapped.byCell).map(([k, v]) => [k, Object.values(v).join(' · ')])));
+          setFormError(error.message);
+          void grid.refetch().then((fresh) => {
+            if (fresh.data) setDraft((mine) => (mine ? rebaseDraft(draftFromGrid(fresh.data), mine) : mine));
+          });
+        } else if (isApiError(error) && error.status === 400 && Object.keys(error.fields).length) {
           const mapped = cellErrors(body, error.fields);
           setErrors(mapped.byCell);
           setFormError(mapped.other.length ? mapped.other.join(' · ') : 'Some cells need attention: see the messages in the grid.');
         } else setFormError(isApiError(error) ? error.message : 'The month could not be saved.');
       },
     });
+  };
+  const submit = () => {
+    // Every ticked cell needs its day of use: the grid never makes one up.
+    const undated = undatedCells(draft);
+    if (undated.length) {
+      setErrors(Object.fromEntries(undated.map((k) => [k, { usedOn: 'Enter the day of use' }])));
+      setFormError(`Enter the day of use for ${undated.length} ticked ${undated.length === 1 ? 'cell' : 'cells'}.`);
+      return;
+    }
+    const late = usesAfterLapse(draft);
+    if (late.length) setLateUse(late);
+    else send();
   };
 
   return (
@@ -156,7 +207,15 @@ function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
       {draft.rows.length === 0 ? (
         <EmptyState title="No welders in this shop">Add a welder who worked here by stamp or name.</EmptyState>
       ) : (
-        <ContinuityGrid draft={draft} readOnly={readOnly} errors={errors} onCell={onCell} onFill={onFill} />
+        <ContinuityGrid
+          draft={draft}
+          readOnly={readOnly}
+          errors={errors}
+          conflicts={conflicts}
+          onCell={onCell}
+          onFill={onFill}
+          onTakeTheirs={onTakeTheirs}
+        />
       )}
       <FormError message={formError} />
       {!readOnly && (
@@ -177,6 +236,18 @@ function MonthGrid({ shopId, month }: { shopId: string; month: string }) {
           </span>
         </div>
       )}
+      <ConfirmDialog
+        open={lateUse.length > 0}
+        title="Save use after a lapse or revocation?"
+        confirmLabel="Save and flag for review"
+        tone="primary"
+        onConfirm={send}
+        onCancel={() => setLateUse([])}
+      >
+        {`${lateUse
+          .map((u) => `${u.stamp} ${u.process} on ${u.usedOn} (${u.codes.map((c) => `${c.label} ${c.kind === 'revoked' ? `revoked ${c.revokedOn ?? ''}` : `lapsed ${c.lapsesOn}`}`).join(', ')})`)
+          .join('; ')}. Use on or after a lapse or revocation does not keep a qualification in force: it is saved, flagged for the QA manager's review, and only a renewal test brings the qualification back.`}
+      </ConfirmDialog>
       <ConfirmDialog
         open={blocker.state === 'blocked'}
         title="Leave without saving?"

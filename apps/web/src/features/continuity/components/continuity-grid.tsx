@@ -6,7 +6,8 @@ import { useMemo, useState, type ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { controlClasses } from '@/components/ui/field';
 import { AlertIcon } from '@/components/ui/icons';
-import { cellKey, fillSource, type CellValue, type DraftRow, type FillScope, type GridDraft } from '../model/grid-draft';
+import { ConfirmDialog } from '@/components/ui/dialog';
+import { cellKey, cellStates, fillSource, type CellValue, type CodeState, type DraftRow, type FillScope, type GridDraft } from '../model/grid-draft';
 
 export type CellErrors = Record<string, Partial<Record<keyof CellValue | 'process', string>>>;
 
@@ -14,8 +15,40 @@ interface GridProps {
   draft: GridDraft;
   readOnly: boolean;
   errors: CellErrors;
+  /** Cells another person changed since the month was opened (after a 409), with whose change it is. */
+  conflicts?: Record<string, string>;
   onCell: (welderId: string, process: string, patch: Partial<CellValue>) => void;
-  onFill: (process: string, scope: FillScope, jobReference?: string) => void;
+  onFill: (process: string, scope: FillScope, jobReference?: string, usedOn?: string) => void;
+  onTakeTheirs?: (welderId: string, process: string) => void;
+}
+
+const stateStyle: Record<CodeState['kind'], string> = {
+  current: 'bg-emerald-50 text-emerald-900 ring-emerald-600/25',
+  lapsing: 'bg-amber-50 text-amber-900 ring-amber-600/30',
+  lapsed: 'bg-red-50 text-red-800 ring-red-600/25',
+  revoked: 'bg-stone-100 text-stone-800 ring-stone-500/30',
+};
+function stateText(c: CodeState): string {
+  if (c.kind === 'revoked') return `${c.label}: revoked ${c.revokedOn ?? ''}`;
+  if (c.kind === 'lapsed') return `${c.label}: lapsed ${c.lapsesOn}`;
+  const days = `${c.daysLeft} ${c.daysLeft === 1 ? 'day' : 'days'} left`;
+  return c.revokedOn ? `${c.label}: ${days} (revoked from ${c.revokedOn})` : `${c.label}: ${days}`;
+}
+
+/** Each code's state of the cell's process today: days left, lapsed or revoked — in words, not colour alone. */
+function CellState({ row, process, today }: { row: DraftRow; process: string; today: string }) {
+  const states = cellStates(row, process, today);
+  if (states.length === 0) return null;
+  return (
+    <ul className="flex flex-wrap gap-1" aria-label={`${row.welder.stamp} ${process} status`}>
+      {states.map((c) => (
+        <li key={c.code} className={`inline-flex items-center gap-1 rounded-full px-2 py-0.5 text-xs font-semibold ring-1 ${stateStyle[c.kind]}`}>
+          {c.kind !== 'current' && <AlertIcon className="size-3.5" />}
+          {stateText(c)}
+        </li>
+      ))}
+    </ul>
+  );
 }
 
 const helper = createColumnHelper<DraftRow>();
@@ -29,7 +62,7 @@ function renderPart<C>(part: unknown, context: C): ReactNode {
 }
 const small = 'min-h-11 sm:min-h-8 px-2 text-sm';
 
-export function ContinuityGrid({ draft, readOnly, errors, onCell, onFill }: GridProps) {
+export function ContinuityGrid({ draft, readOnly, errors, conflicts = {}, onCell, onFill, onTakeTheirs }: GridProps) {
   const columns = useMemo(
     () => [
       helper.display({
@@ -55,6 +88,7 @@ export function ContinuityGrid({ draft, readOnly, errors, onCell, onFill }: Grid
             const error = errors[key] ?? {};
             const errorId = `err-${key}`;
             const messages = Object.values(error).filter(Boolean);
+            const conflict = conflicts[key];
             return (
               <div className={`min-w-56 space-y-1 rounded-md p-1 ${cell.used ? 'bg-accent-50/60' : ''}`} data-cell={key}>
                 <div className="flex items-center gap-2">
@@ -78,6 +112,17 @@ export function ContinuityGrid({ draft, readOnly, errors, onCell, onFill }: Grid
                     </span>
                   )}
                 </div>
+                <CellState row={row.original} process={process} today={draft.today} />
+                {conflict && (
+                  <div className="rounded-md border border-amber-300 bg-amber-50 p-2 text-xs text-amber-900" role="alert">
+                    <p>{conflict}. Your entry is kept below: save again to reapply it.</p>
+                    {onTakeTheirs && (
+                      <Button size="row" variant="ghost" onClick={() => onTakeTheirs(row.original.welder.id, process)} aria-label={`${who} keep their change`}>
+                        Keep their change
+                      </Button>
+                    )}
+                  </div>
+                )}
                 <input
                   className={`${controlClasses(Boolean(error.jobReference))} ${small}`}
                   placeholder="Job or traveler"
@@ -101,6 +146,7 @@ export function ContinuityGrid({ draft, readOnly, errors, onCell, onFill }: Grid
                     type="date"
                     className={`${controlClasses(Boolean(error.usedOn))} ${small} w-36`}
                     value={cell.usedOn}
+                    required={cell.used}
                     min={`${draft.month}-01`}
                     disabled={readOnly}
                     aria-label={`${who} used on`}
@@ -119,7 +165,7 @@ export function ContinuityGrid({ draft, readOnly, errors, onCell, onFill }: Grid
         }),
       ),
     ],
-    [draft, readOnly, errors, onCell, onFill],
+    [draft, readOnly, errors, conflicts, onCell, onFill, onTakeTheirs],
   );
 
   const table = useReactTable({ data: draft.rows, columns, getCoreRowModel: getCoreRowModel(), getRowId: (r) => r.welder.id });
@@ -154,9 +200,14 @@ export function ContinuityGrid({ draft, readOnly, errors, onCell, onFill }: Grid
   );
 }
 
-/** The column header: the process, and the fill-down of one job reference typed once for the column. */
+/**
+ * The column header: the process, and the fill-down of one job reference (and, if given, one day of use)
+ * typed once for the column. It fills empty cells only; overwriting other jobs is asked for separately.
+ */
 function FillHeader({ process, draft, readOnly, onFill }: { process: string; draft: GridDraft; readOnly: boolean; onFill: GridProps['onFill'] }) {
   const [job, setJob] = useState('');
+  const [day, setDay] = useState('');
+  const [confirmAll, setConfirmAll] = useState(false);
   const source = job.trim() || fillSource(draft, process);
   return (
     <div className="min-w-56 space-y-1">
@@ -170,28 +221,50 @@ function FillHeader({ process, draft, readOnly, onFill }: { process: string; dra
             aria-label={`Job for every ${process} row`}
             onChange={(e) => setJob(e.target.value)}
           />
+          <input
+            type="date"
+            className={`${controlClasses(false)} ${small} w-40`}
+            value={day}
+            min={`${draft.month}-01`}
+            max={`${draft.month}-31`}
+            aria-label={`Day of use for filled ${process} rows`}
+            title="The day the crew used the process; filled cells without one must be dated before saving"
+            onChange={(e) => setDay(e.target.value)}
+          />
           <div className="flex flex-wrap gap-1">
             <Button
               size="row"
-              onClick={() => onFill(process, 'all', source ?? undefined)}
+              onClick={() => onFill(process, 'empty', source ?? undefined, day || undefined)}
               disabled={!source}
               aria-label={`Fill job down ${process}`}
-              title="Put this job into every row of the column and mark them used"
+              title="Put this job into the empty cells of the column and mark them used; cells you unticked stay unticked"
             >
               Fill job down
             </Button>
             <Button
               size="row"
               variant="ghost"
-              onClick={() => onFill(process, 'unchecked', source ?? undefined)}
+              onClick={() => setConfirmAll(true)}
               disabled={!source}
-              aria-label={`Fill job into unticked rows ${process}`}
-              title="Put this job only into the rows not yet ticked, keeping the jobs already logged"
+              aria-label={`Overwrite every job ${process}`}
+              title="Also replace the jobs already entered in this column"
             >
-              Only unticked
+              Overwrite all
             </Button>
           </div>
-          <p className="text-xs font-normal text-stone-500">{source ? `Fills “${source}”` : 'Type a job to fill down'}</p>
+          <p className="text-xs font-normal text-stone-500">{source ? `Fills “${source}”${day ? ` on ${day}` : ''}` : 'Type a job to fill down'}</p>
+          <ConfirmDialog
+            open={confirmAll}
+            title={`Replace every ${process} job?`}
+            confirmLabel="Replace the jobs"
+            onConfirm={() => {
+              setConfirmAll(false);
+              onFill(process, 'all', source ?? undefined, day || undefined);
+            }}
+            onCancel={() => setConfirmAll(false)}
+          >
+            {`Every ticked or empty ${process} cell gets “${source ?? ''}”, replacing the jobs already entered. Cells you unticked stay unticked.`}
+          </ConfirmDialog>
         </>
       )}
     </div>

@@ -1,6 +1,6 @@
 import type { Grid } from '@beadroll/rules';
 import { describe, expect, it } from 'vitest';
-import { addWelder, cellErrors, draftFromGrid, fillDown, fillSource, isDirty, saveBody, setCell, toggleUsed } from './grid-draft';
+import { addWelder, cellErrors, cellStates, draftFromGrid, fillDown, fillSource, isDirty, rebaseDraft, saveBody, setCell, takeTheirs, toggleUsed, undatedCells, usesAfterLapse } from './grid-draft';
 
 const ids = ['11111111-1111-4111-8111-111111111111', '22222222-2222-4222-8222-222222222222', '33333333-3333-4333-8333-333333333333'];
 const shopId = '44444444-4444-4444-8444-444444444444';
@@ -24,10 +24,10 @@ const grid: Grid = {
 };
 
 describe('the continuity-log grid draft', () => {
-  it('starts clean, prefills the first day of the month and marks saved and flagged cells', () => {
+  it('starts clean, with no made-up day of use in empty cells, and marks saved and flagged cells', () => {
     const draft = draftFromGrid(grid);
     expect(isDirty(draft)).toBe(false);
-    expect(draft.rows[0]!.cells.SMAW).toMatchObject({ used: false, usedOn: '2026-11-01', enabled: true });
+    expect(draft.rows[0]!.cells.SMAW).toMatchObject({ used: false, usedOn: '', enabled: true });
     expect(draft.rows[1]!.cells.SMAW).toMatchObject({ used: true, jobReference: 'J-9', flaggedLapsed: true });
     expect(draft.rows[1]!.cells.GTAW!.enabled).toBe(false);
     expect(saveBody(draft)).toEqual({ shopId, month: '2026-11', cells: [], remove: [] });
@@ -50,28 +50,94 @@ describe('the continuity-log grid draft', () => {
     expect(blocked.rows[1]!.cells.GTAW).toMatchObject({ used: false, jobReference: '' });
   });
 
-  it('fills a job down the column into every row that can log it and marks them used', () => {
-    const typed = setCell(draftFromGrid(grid), ids[0]!, 'SMAW', { jobReference: 'TRAV-4471' });
-    expect(fillSource(typed, 'SMAW')).toBe('TRAV-4471');
-    const filled = fillDown(typed, 'SMAW');
-    expect(filled.rows.map((r) => [r.cells.SMAW!.used, r.cells.SMAW!.jobReference])).toEqual([
-      [true, 'TRAV-4471'],
-      [true, 'TRAV-4471'],
-      [true, 'TRAV-4471'],
-    ]);
-    // GTAW: only the one welder qualified for it; the others stay untouched.
-    const gtaw = fillDown(filled, 'GTAW', 'all', 'T-2');
-    expect(gtaw.rows.map((r) => r.cells.GTAW!.used)).toEqual([true, false, false]);
-    const body = saveBody(gtaw);
-    expect(body.cells).toHaveLength(4);
-    expect(body.cells.find((c) => c.welderId === ids[1])).toMatchObject({ process: 'SMAW', jobReference: 'TRAV-4471', usedOn: '2026-11-03' });
+  it('issue 8 defect 3: a tick is never dated the 1st by default; it takes the last day the user entered, or asks', () => {
+    const ticked = toggleUsed(draftFromGrid(grid), ids[0]!, 'SMAW');
+    expect(ticked.rows[0]!.cells.SMAW).toMatchObject({ used: true, usedOn: '' });
+    expect(undatedCells(ticked)).toEqual([`${ids[0]}:SMAW`]);
+    const dated = setCell(ticked, ids[0]!, 'SMAW', { usedOn: '2026-11-20' });
+    expect(undatedCells(dated)).toEqual([]);
+    const next = toggleUsed(dated, ids[2]!, 'SMAW');
+    expect(next.rows[2]!.cells.SMAW!.usedOn).toBe('2026-11-20');
   });
 
-  it('fills only the unticked rows when asked, keeping the jobs already logged', () => {
-    const typed = setCell(draftFromGrid(grid), ids[0]!, 'SMAW', { jobReference: 'TRAV-1' });
-    const filled = fillDown(typed, 'SMAW', 'unchecked');
-    expect(filled.rows.map((r) => r.cells.SMAW!.jobReference)).toEqual(['TRAV-1', 'J-9', 'TRAV-1']);
+  it('issue 10 item 5: fill job down fills only empty cells, keeps other jobs and never re-ticks an unticked cell', () => {
+    let d = setCell(draftFromGrid(grid), ids[0]!, 'SMAW', { jobReference: 'TRAV-4471' });
+    expect(fillSource(d, 'SMAW')).toBe('TRAV-4471');
+    d = toggleUsed(d, ids[2]!, 'SMAW');
+    d = toggleUsed(d, ids[2]!, 'SMAW'); // ticked then unticked by the user
+    const filled = fillDown(d, 'SMAW');
+    expect(filled.rows.map((r) => [r.cells.SMAW!.used, r.cells.SMAW!.jobReference])).toEqual([
+      [true, 'TRAV-4471'],
+      [true, 'J-9'],
+      [false, ''],
+    ]);
+    // Asked to overwrite: other jobs change, the unticked cell still stays unticked.
+    const all = fillDown(d, 'SMAW', 'all', 'TRAV-5');
+    expect(all.rows.map((r) => [r.cells.SMAW!.used, r.cells.SMAW!.jobReference])).toEqual([
+      [true, 'TRAV-5'],
+      [true, 'TRAV-5'],
+      [false, ''],
+    ]);
+    // The day comes from the user (the fill's day, or the cell's own), never made up.
+    expect(all.rows[1]!.cells.SMAW!.usedOn).toBe('2026-11-03');
+    expect(all.rows[0]!.cells.SMAW!.usedOn).toBe('');
+    const withDay = fillDown(draftFromGrid(grid), 'SMAW', 'empty', 'TRAV-6', '2026-11-12');
+    expect(withDay.rows.map((r) => r.cells.SMAW!.usedOn)).toEqual(['2026-11-12', '2026-11-03', '2026-11-12']);
+    // GTAW: only the one welder qualified for it; the others stay untouched.
+    const gtaw = fillDown(withDay, 'GTAW', 'empty', 'T-2', '2026-11-12');
+    expect(gtaw.rows.map((r) => r.cells.GTAW!.used)).toEqual([true, false, false]);
+    expect(saveBody(gtaw).cells).toHaveLength(3);
     expect(fillDown(draftFromGrid(grid), 'GTAW')).toEqual(draftFromGrid(grid)); // nothing typed: nothing to copy
+  });
+
+  it('issue 10 item 3: each cell has its state per code; use on or after a lapse or revocation is listed before saving', () => {
+    const withPairs: Grid = {
+      ...grid,
+      today: '2026-11-25',
+      rows: grid.rows.map((r, i) =>
+        i === 0
+          ? {
+              ...r,
+              pairs: [
+                { process: 'SMAW', code: 'asme-ix', lapsesOn: '2026-11-15', revokedOn: null },
+                { process: 'SMAW', code: 'aws-d1.1', lapsesOn: '2027-03-01', revokedOn: null },
+                { process: 'GTAW', code: 'asme-ix', lapsesOn: '2026-11-28', revokedOn: '2026-11-28' },
+              ],
+            }
+          : r,
+      ),
+    };
+    const draft = draftFromGrid(withPairs);
+    const row = draft.rows[0]!;
+    expect(cellStates(row, 'SMAW', draft.today).map((c) => [c.label, c.kind, c.daysLeft])).toEqual([
+      ['ASME IX', 'lapsed', -10],
+      ['AWS D1.1', 'current', 96],
+    ]);
+    expect(cellStates(row, 'GTAW', draft.today).map((c) => [c.kind, c.daysLeft])).toEqual([['lapsing', 3]]);
+    expect(cellStates(row, 'GTAW', '2026-11-28').map((c) => c.kind)).toEqual(['revoked']);
+    const before = setCell(draft, ids[0]!, 'SMAW', { used: true, jobReference: 'J-1', usedOn: '2026-11-10' });
+    expect(usesAfterLapse(before)).toEqual([]);
+    const after = setCell(before, ids[0]!, 'GTAW', { used: true, jobReference: 'J-1', usedOn: '2026-11-28' });
+    const late = setCell(after, ids[0]!, 'SMAW', { usedOn: '2026-11-20' });
+    expect(usesAfterLapse(late).map((x) => [x.process, x.usedOn, x.codes.map((c) => c.kind)])).toEqual([
+      ['SMAW', '2026-11-20', ['lapsed']],
+      ['GTAW', '2026-11-28', ['revoked']],
+    ]);
+  });
+
+  it('issue 8 defect 7: after a 409 the fresh grid keeps the user’s edits on the new version; take theirs drops one', () => {
+    const mine = setCell(draftFromGrid(grid), ids[1]!, 'SMAW', { jobReference: 'J-MINE' });
+    const theirsGrid: Grid = {
+      ...grid,
+      rows: grid.rows.map((r, i) =>
+        i === 1 ? { ...r, cells: { ...r.cells, SMAW: { entryId: 'e1', usedOn: '2026-11-04', jobReference: 'J-THEIRS', note: '', flaggedLapsed: false, version: 2 } } } : r,
+      ),
+    };
+    const rebased = rebaseDraft(draftFromGrid(theirsGrid), mine);
+    expect(rebased.rows[1]!.cells.SMAW).toMatchObject({ jobReference: 'J-MINE', version: 2, saved: { jobReference: 'J-THEIRS' } });
+    expect(saveBody(rebased).cells).toEqual([expect.objectContaining({ jobReference: 'J-MINE', version: 2 })]);
+    const theirs = takeTheirs(rebased, ids[1]!, 'SMAW');
+    expect(isDirty(theirs)).toBe(false);
   });
 
   it('sends an unticked saved cell as a removal, and maps 400 fields back to their cells', () => {
