@@ -128,6 +128,8 @@ if (wanted('e2e')) {
     APP_URL: baseUrl,
     WEB_DIST: path.resolve('apps/web/dist'),
     E2E_BASE_URL: baseUrl,
+    // The invitee journey reads its invitation from the development inbox while signed out.
+    DEV_MAIL_OPEN: 'true',
   };
   const prep = [
     await run('bash', ['docker-free-scripts/pg.sh', 'reset-db', 'beadroll_e2e'], { quiet: true }),
