@@ -1,15 +1,20 @@
 // My qualifications (the welder): what each qualification lets me weld, whether it is in force, the
 // days left, my WPQ PDFs and my wallet card, and who to ask about it.
 import { useQuery } from '@tanstack/react-query';
+import { lazy, Suspense } from 'react';
 import { Link } from 'react-router-dom';
 import { buttonClasses } from '@/components/ui/button';
 import { Card, PageHeader } from '@/components/ui/page-header';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
 import { qualificationQueries, walletCardUrl } from '@/features/qualifications/api/qualification-queries';
-import { ContinuitySummary } from '@/features/continuity/components/continuity-timeline';
 import { QualificationCard } from '@/features/qualifications/components/qualification-card';
 import { useUser } from '@/lib/auth';
+
+// Below the qualification cards: loaded after the page has painted.
+const ContinuitySummary = lazy(() =>
+  import('@/features/continuity/components/continuity-timeline').then((m) => ({ default: m.ContinuitySummary })),
+);
 
 export default function MyQualificationsRoute() {
   const me = useUser();
@@ -51,7 +56,9 @@ export default function MyQualificationsRoute() {
           <h2 id="continuity-heading" className="mb-2 text-sm font-semibold uppercase tracking-wide text-stone-600">
             Continuity: days left and last logged use
           </h2>
-          <ContinuitySummary welderId={me.welderId} />
+          <Suspense fallback={<LoadingState label="Loading your continuity…" />}>
+            <ContinuitySummary welderId={me.welderId} />
+          </Suspense>
         </section>
       )}
       <Card className="mt-4 p-4">

@@ -1,7 +1,5 @@
 import { passwordSchema, type TokenInfo } from '@beadroll/rules';
-import { zodResolver } from '@hookform/resolvers/zod';
 import { useQuery } from '@tanstack/react-query';
-import { useForm } from 'react-hook-form';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { z } from 'zod';
 import { Button } from '@/components/ui/button';
@@ -13,13 +11,13 @@ import { useSetPassword } from '@/features/auth/api/set-password';
 import { tokenQueries } from '@/features/auth/api/token-queries';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { homeFor } from '@/lib/auth';
-import { applyApiError } from '@/lib/form-errors';
+import { usePlainForm } from '@/lib/plain-form';
 import { AuthLayout } from './auth-layout';
 
 const passwordForm = z
   .object({ password: passwordSchema, confirm: z.string() })
   .refine((v) => v.password === v.confirm, { path: ['confirm'], message: 'The two passwords differ' });
-type PasswordForm = z.infer<typeof passwordForm>;
+const passwordFields = ['password', 'confirm'] as const;
 
 function LinkProblem({ message }: { message: string }) {
   return (
@@ -42,18 +40,21 @@ function LinkProblem({ message }: { message: string }) {
 function SetPasswordForm({ token, info }: { token: string; info: TokenInfo }) {
   const navigate = useNavigate();
   const setPassword = useSetPassword();
-  const form = useForm<PasswordForm>({ resolver: zodResolver(passwordForm), defaultValues: { password: '', confirm: '' } });
-  const { errors } = form.formState;
+  const { errors, read, showApiError } = usePlainForm(passwordForm, passwordFields);
 
-  const onSubmit = form.handleSubmit(({ password }) =>
+  function onSubmit(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = event.currentTarget;
+    const input = read(form);
+    if (!input) return;
     setPassword.mutate(
-      { token, password },
+      { token, password: input.password },
       {
         onSuccess: (me) => void navigate(homeFor(me), { replace: true }),
-        onError: (error) => applyApiError(error, form.setError, ['password']),
+        onError: (error) => showApiError(form, error),
       },
-    ),
-  );
+    );
+  }
 
   const invitation = info.purpose === 'invitation';
   return (
@@ -66,26 +67,26 @@ function SetPasswordForm({ token, info }: { token: string; info: TokenInfo }) {
         </>
       }
     >
-      <form onSubmit={(e) => void onSubmit(e)} noValidate className="flex flex-col gap-4">
+      <form onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
         {/* Lets password managers file the new password under the right account. */}
         <input type="email" name="username" autoComplete="username" value={info.email} readOnly hidden />
         <TextField
           label="New password"
+          name="password"
           type="password"
           autoComplete="new-password"
           autoFocus
           hint="At least 10 characters."
-          error={errors.password?.message}
-          {...form.register('password')}
+          error={errors.password}
         />
         <TextField
           label="Repeat the password"
+          name="confirm"
           type="password"
           autoComplete="new-password"
-          error={errors.confirm?.message}
-          {...form.register('confirm')}
+          error={errors.confirm}
         />
-        <FormError message={errors.root?.server?.message} />
+        <FormError message={errors.form} />
         <Button type="submit" variant="primary" busy={setPassword.isPending}>
           Set password and sign in
         </Button>

@@ -1,59 +1,46 @@
 import { loginInput } from '@beadroll/rules';
-import { zodResolver } from '@hookform/resolvers/zod';
-import { useForm } from 'react-hook-form';
+import { useRef } from 'react';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
-import type { z } from 'zod';
 import { Button } from '@/components/ui/button';
 import { FormError, TextField } from '@/components/ui/field';
 import { paths } from '@/config/paths';
 import { homeFor, safeRedirect, useLogin } from '@/lib/auth';
-import { applyApiError } from '@/lib/form-errors';
+import { usePlainForm } from '@/lib/plain-form';
 import { AuthLayout } from './auth-layout';
 
-type LoginForm = z.input<typeof loginInput>;
+const fields = ['email', 'password'] as const;
 
 export default function SignInRoute() {
   const [params] = useSearchParams();
   const navigate = useNavigate();
   const login = useLogin();
-  const form = useForm<LoginForm, unknown, z.output<typeof loginInput>>({
-    resolver: zodResolver(loginInput),
-    defaultValues: { email: '', password: '' },
-  });
-  const { errors } = form.formState;
+  const formRef = useRef<HTMLFormElement>(null);
+  const { errors, read, showApiError } = usePlainForm(loginInput, fields);
 
-  const onSubmit = form.handleSubmit((input) =>
+  function onSubmit(event: React.FormEvent<HTMLFormElement>) {
+    event.preventDefault();
+    const form = event.currentTarget;
+    const input = read(form);
+    if (!input) return;
     login.mutate(input, {
       onSuccess: (me) => {
         const target = params.get('redirect');
         void navigate(target ? safeRedirect(target) : homeFor(me), { replace: true });
       },
       onError: (error) => {
-        applyApiError(error, form.setError, ['email', 'password']);
-        form.resetField('password', { keepError: true });
+        const password = form.elements.namedItem('password');
+        if (password instanceof HTMLInputElement) password.value = '';
+        showApiError(formRef.current, error);
       },
-    }),
-  );
+    });
+  }
 
   return (
     <AuthLayout title="Sign in" intro={params.get('redirect') ? 'Sign in to continue where you were.' : undefined}>
-      <form onSubmit={(e) => void onSubmit(e)} noValidate className="flex flex-col gap-4">
-        <TextField
-          label="E-mail"
-          type="email"
-          autoComplete="username"
-          autoFocus
-          error={errors.email?.message}
-          {...form.register('email')}
-        />
-        <TextField
-          label="Password"
-          type="password"
-          autoComplete="current-password"
-          error={errors.password?.message}
-          {...form.register('password')}
-        />
-        <FormError message={errors.root?.server?.message} />
+      <form ref={formRef} onSubmit={onSubmit} noValidate className="flex flex-col gap-4">
+        <TextField label="E-mail" name="email" type="email" autoComplete="username" autoFocus error={errors.email} />
+        <TextField label="Password" name="password" type="password" autoComplete="current-password" error={errors.password} />
+        <FormError message={errors.form} />
         <Button type="submit" variant="primary" busy={login.isPending}>
           Sign in
         </Button>

@@ -1,21 +1,18 @@
 // Lapses due in the next 90 days, per week: a bar chart for the eye and the same figures as a table for
 // screen readers and for reading exact numbers.
-import { Bar, BarChart, CartesianGrid, ResponsiveContainer, Tooltip, XAxis, YAxis } from 'recharts';
+// The chart library is large: it loads after the page has painted, into a box of fixed height.
+import { lazy, Suspense } from 'react';
+
+const LapsesBars = lazy(() => import('./lapses-bars'));
 
 export function LapsesChart({ weeks }: { weeks: { weekStart: string; count: number }[] }) {
   const total = weeks.reduce((sum, w) => sum + w.count, 0);
   return (
     <div>
       <div className="h-56 w-full" aria-hidden="true">
-        <ResponsiveContainer width="100%" height="100%">
-          <BarChart data={weeks} margin={{ top: 8, right: 8, bottom: 8, left: -16 }}>
-            <CartesianGrid strokeDasharray="3 3" vertical={false} />
-            <XAxis dataKey="weekStart" tickFormatter={(d: string) => d.slice(5)} fontSize={12} />
-            <YAxis allowDecimals={false} fontSize={12} />
-            <Tooltip formatter={(v) => [v, 'lapses']} labelFormatter={(d) => `Week of ${typeof d === "string" ? d : ""}`} />
-            <Bar dataKey="count" name="Lapses" fill="#b45309" radius={[3, 3, 0, 0]} />
-          </BarChart>
-        </ResponsiveContainer>
+        <Suspense fallback={null}>
+          <LapsesBars weeks={weeks} />
+        </Suspense>
       </div>
       <details className="mt-2 text-sm">
         <summary className="min-h-11 cursor-pointer py-2 font-semibold text-accent-700 sm:min-h-0">Show the figures as a table</summary>
