@@ -4,6 +4,7 @@ import { randomUUID } from 'node:crypto';
 import express, { Router, type Express } from 'express';
 import helmet from 'helmet';
 import cookieParser from 'cookie-parser';
+import compression from 'compression';
 import { pinoHttp } from 'pino-http';
 import type { AppDeps } from './lib/context.js';
 import { apiNotFound, errorHandler } from './lib/errors.js';
@@ -77,6 +78,8 @@ export function createApp(opts: CreateAppOptions): Express {
     }),
   );
   app.use(cookieParser());
+  // JSON answers and the HTML shell, compressed per response; the web assets are compressed at build time.
+  app.use(compression());
 
   const session = createAuthenticator(config, (sessionId) =>
     loadSessionActor(dataSource.manager, sessionId, deps.clock.now()),

@@ -2,6 +2,7 @@
 // table (`sid`), read back by a passport-jwt strategy that loads the session and its caller in one
 // indexed query on every request — so signing out, a password reset, a deactivation or a role change
 // ends the session at once, on every instance. `requireRole` is the one place roles are checked.
+import { createSecretKey, type KeyObject } from 'node:crypto';
 import type { RequestHandler, Request, Response } from 'express';
 import jwt from 'jsonwebtoken';
 import passport from 'passport';
@@ -35,7 +36,7 @@ export function signSession(
   actor: { id: string; organizationId: string },
   sessionId: string,
 ): string {
-  return jwt.sign({ org: actor.organizationId, sid: sessionId }, config.jwtSecret, {
+  return jwt.sign({ org: actor.organizationId, sid: sessionId }, sessionKey(config.jwtSecret), {
     subject: actor.id,
     issuer: ISSUER,
     algorithm: 'HS256',
@@ -83,6 +84,18 @@ export function clearSessionCookie(res: Response, config: Pick<Config, 'appUrl'>
   });
 }
 
+// jsonwebtoken turns a string secret into a key on every verify, first trying (and failing) to read it as
+// a public key: about a tenth of a simple request's CPU. The key object is made once per secret.
+const keys = new Map<string, KeyObject>();
+function sessionKey(secret: string): KeyObject {
+  let key = keys.get(secret);
+  if (!key) {
+    key = createSecretKey(Buffer.from(secret, 'utf8'));
+    keys.set(secret, key);
+  }
+  return key;
+}
+
 /** A passport instance of our own per app, so that two apps in one process (tests) never share state. */
 export function createAuthenticator(
   config: Pick<Config, 'jwtSecret'>,
@@ -95,7 +108,8 @@ export function createAuthenticator(
     new JwtStrategy(
       {
         jwtFromRequest: sessionToken,
-        secretOrKey: config.jwtSecret,
+        // passport-jwt hands the key to jsonwebtoken as it is; its types only know strings and buffers.
+        secretOrKey: sessionKey(config.jwtSecret) as unknown as string,
         issuer: ISSUER,
         algorithms: ['HS256'],
       },
