@@ -4,6 +4,7 @@ import path from 'node:path';
 import { startMailCatcher } from './mail-catcher.js';
 import { startObjectStore, storeCredentials } from './object-store.js';
 import { keep, run, stop, tsx, waitForHealth } from './proc.js';
+import { buildWeb } from './web-build.js';
 
 const env = process.env;
 const port = env.PORT ?? '8080';
@@ -43,6 +44,8 @@ async function shutdown(code: number): Promise<never> {
 process.on('SIGINT', () => void shutdown(0));
 process.on('SIGTERM', () => void shutdown(0));
 
+// The web build (only when its sources changed) runs while the database and services come up.
+const build = buildWeb();
 await must('PostgreSQL', run('bash', ['docker-free-scripts/pg.sh', 'start']));
 services = [
   await startMailCatcher({ port: Number(env.SMTP_PORT ?? 2525), dir: path.join(dataDir, 'mail') }),
@@ -54,10 +57,10 @@ services = [
   }),
 ];
 console.log(`beadroll: mail catcher on 127.0.0.1:${env.SMTP_PORT}, object store on 127.0.0.1:${env.S3_PORT}`);
-await must('migrations', run(...tsx('apps/api/src/db/migrate.ts'), { env: appEnv }));
-await must('demo seed', run(...tsx('apps/api/src/db/seed.ts'), { env: appEnv }));
-console.log('beadroll: building the web app');
-await must('web build', run(process.execPath, ['node_modules/vite/bin/vite.js', 'build', 'apps/web', '--logLevel', 'warn'], { env: appEnv }));
+// The seed applies pending migrations first, then adds the demo data when it is missing.
+await must('migrations and demo seed', run(...tsx('apps/api/src/db/seed.ts'), { env: appEnv }));
+await must('web build', build);
+console.log((await build).skipped ? 'beadroll: the web build is up to date' : 'beadroll: web app built');
 const api = keep(...tsx('apps/api/src/main.ts'), appEnv);
 running.api = api;
 api.on('exit', (code) => {
@@ -67,9 +70,10 @@ api.on('exit', (code) => {
   }
 });
 await waitForHealth(`${url}/api/health`);
+const readyIn = (performance.now() / 1000).toFixed(1);
 
 console.log(`
-Beadroll is running at ${url}
+Beadroll is running at ${url} (ready in ${readyIn} s; development mode: demo data, mail caught at /dev/mail)
   mail caught in development: ${url}/dev/mail
 
 Demo accounts (password demo-weld-2026):

@@ -7,6 +7,7 @@ import path from 'node:path';
 import { startMailCatcher } from './mail-catcher.js';
 import { startObjectStore, storeCredentials } from './object-store.js';
 import { keep, run, stop, tsx, waitForHealth, type RunResult } from './proc.js';
+import { buildWeb } from './web-build.js';
 
 const env = process.env;
 const dataDir = path.resolve(env.DATA_DIR ?? '.data-test');
@@ -133,7 +134,7 @@ if (wanted('e2e')) {
   };
   const prep = [
     await run('bash', ['docker-free-scripts/pg.sh', 'reset-db', 'beadroll_e2e'], { quiet: true }),
-    await run(process.execPath, ['node_modules/vite/bin/vite.js', 'build', 'apps/web', '--logLevel', 'warn'], { env: e2eEnv }),
+    await buildWeb(),
     await run(...tsx('apps/api/src/db/migrate.ts'), { env: e2eEnv, quiet: true }),
     await run(...tsx('apps/api/src/db/seed.ts'), { env: e2eEnv, quiet: true }),
   ];
