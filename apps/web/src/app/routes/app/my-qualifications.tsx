@@ -8,9 +8,12 @@ import { Card, PageHeader } from '@/components/ui/page-header';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
 import { qualificationQueries, walletCardUrl } from '@/features/qualifications/api/qualification-queries';
-import { QualificationCard } from '@/features/qualifications/components/qualification-card';
 import { useUser } from '@/lib/auth';
 
+// The cards (with the ranges view) load while the list is fetched, so the page paints without them.
+// Requested as soon as this screen's code runs, in parallel with the list, without holding up the paint.
+const cardModule = import('@/features/qualifications/components/qualification-card');
+const QualificationCard = lazy(() => cardModule.then((m) => ({ default: m.QualificationCard })));
 // Below the qualification cards: loaded after the page has painted.
 const ContinuitySummary = lazy(() =>
   import('@/features/continuity/components/continuity-timeline').then((m) => ({ default: m.ContinuitySummary })),
@@ -45,11 +48,13 @@ export default function MyQualificationsRoute() {
           <p className="text-stone-800">You have no certified qualification on record yet. Your QA manager records your tests and certifies them.</p>
         </Card>
       ) : (
-        <div className="space-y-3">
-          {list.data.items.map((q) => (
-            <QualificationCard key={q.id} qualification={q} />
-          ))}
-        </div>
+        <Suspense fallback={<LoadingState label="Loading your qualifications…" />}>
+          <div className="space-y-3">
+            {list.data.items.map((q) => (
+              <QualificationCard key={q.id} qualification={q} />
+            ))}
+          </div>
+        </Suspense>
       )}
       {me.welderId && (
         <section aria-labelledby="continuity-heading" className="mt-5">
