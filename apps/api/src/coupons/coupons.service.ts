@@ -14,7 +14,7 @@ import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { diff, recordAudit } from '../lib/audit.js';
-import { isoDay } from '../lib/dates.js';
+import { companyToday } from '../settings/settings.repository.js';
 import { companyShops } from '../shops/shops.service.js';
 import { checkAttachments, uploadsById } from '../uploads/uploads.service.js';
 import { procedureForCoupon } from '../procedures/procedures.repository.js';
@@ -98,7 +98,7 @@ async function prepare(
     ? procedureProblem(procedure, input.coupon)
     : 'Choose a WPS from your company’s register';
   if (problem) fields.procedureId = problem;
-  if (input.testedOn > isoDay(deps.clock.now())) fields.testedOn = 'The test date cannot be in the future';
+  if (input.testedOn > (await companyToday(db, actor.organizationId, deps.clock))) fields.testedOn = 'The test date cannot be in the future';
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
 
   const evaluation = evaluateCoupon(input);

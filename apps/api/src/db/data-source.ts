@@ -1,6 +1,8 @@
 // The TypeORM DataSource: entities and migrations listed explicitly (no globs), never synchronized.
 import 'reflect-metadata';
-import { DataSource, type LoggerOptions, type Logger as TypeOrmLogger } from 'typeorm';
+import { DataSource, type EntityManager, type LoggerOptions, type Logger as TypeOrmLogger } from 'typeorm';
+import type { IsolationLevel } from 'typeorm/driver/types/IsolationLevel.js';
+import { withConflictRetry } from '../lib/transaction.js';
 import type { Config } from '../config.js';
 import { OrganizationEntity } from '../shops/organization.entity.js';
 import { ShopEntity } from '../shops/shop.entity.js';
@@ -20,6 +22,7 @@ import { Continuity1764806400000 } from './migrations/1764806400000-continuity.j
 import { ContinuityEntryEntity, ContinuityStateEntity } from '../continuity/continuity.entity.js';
 import { LapseWatch1764892800000 } from './migrations/1764892800000-lapse-watch.js';
 import { ContinuityIndexes1764979200000 } from './migrations/1764979200000-continuity-indexes.js';
+import { LapseDelivery1765200000000 } from './migrations/1765200000000-lapse-delivery.js';
 import { ImportsAndApiTokens1765700000000 } from './migrations/1765700000000-imports-and-api-tokens.js';
 import { Sessions1765500000000 } from './migrations/1765500000000-sessions.js';
 import { ImportPhase1765700000001 } from './migrations/1765700000001-import-phase.js';
@@ -48,7 +51,7 @@ export const entities = [
   LapseNoticeEntity,
   NoticeDeliveryEntity,
 ];
-export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001];
+export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001];
 
 export interface DataSourceOptions {
   /** Pool size; the API default suits one instance on a small machine. */
@@ -57,8 +60,22 @@ export interface DataSourceOptions {
   logger?: TypeOrmLogger;
 }
 
+/** A DataSource whose transactions are retried on deadlock and serialization failure (lib/transaction.ts). */
+export class RetryingDataSource extends DataSource {
+  override transaction<T>(run: (manager: EntityManager) => Promise<T>): Promise<T>;
+  override transaction<T>(isolation: IsolationLevel, run: (manager: EntityManager) => Promise<T>): Promise<T>;
+  override transaction<T>(
+    a: IsolationLevel | ((manager: EntityManager) => Promise<T>),
+    b?: (manager: EntityManager) => Promise<T>,
+  ): Promise<T> {
+    return withConflictRetry(() =>
+      typeof a === 'function' ? super.transaction(a) : super.transaction(a, b!),
+    );
+  }
+}
+
 export function createDataSource(db: Config['db'], opts: DataSourceOptions = {}): DataSource {
-  return new DataSource({
+  return new RetryingDataSource({
     type: 'postgres',
     host: db.host,
     port: db.port,

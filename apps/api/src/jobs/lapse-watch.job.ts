@@ -1,74 +1,95 @@
-// The lapse-watch job: an entry point like HTTP (schedule, CLI and "run now" all come here). It holds a
-// PostgreSQL session advisory lock on one dedicated connection for the whole run, so of two instances
-// started together only one works; the other records a 'skipped' run and logs it. The lock goes with
-// the connection, so a crashed run never leaves it held.
+// The lapse-watch job: an entry point like HTTP (schedule, CLI and "run now" all come here), and the
+// frequent sender.
+//
+// A run holds a PostgreSQL session advisory lock on one dedicated connection while it writes, so of two
+// instances started together only one works; the other records a 'skipped' run for each company it was
+// asked to run (never shown to another company) and logs it. The lock goes with the connection, so a
+// crashed run never leaves it held. Each company's run is dated today in the company's own time zone —
+// never another day (Preview looks at other days) — and stays 'sending' until the sender has settled
+// every delivery of its notices.
+//
+// The sender (lapse-watch/lapse-sender.ts) runs every few minutes under its own advisory lock (so
+// instances take turns instead of all polling at once), and right after each run without the lock: its
+// leased claims, not the lock, keep two senders from sending the same delivery.
 import { hostname } from 'node:os';
 import cron from 'node-cron';
-import { format } from 'date-fns';
 import type { LapseWatchRun } from '@beadroll/rules';
-import { isoDay } from '../lib/dates.js';
+import { AppError } from '../lib/errors.js';
+import { wallTimeIn } from '../lib/dates.js';
 import { settingsOfCompanies } from '../settings/settings.repository.js';
 import * as repo from '../lapse-watch/lapse-watch.repository.js';
-import {
-  sendCompanyDigests,
-  writeCompanyNotices,
-  type LapseWatchDeps,
-} from '../lapse-watch/lapse-watch.service.js';
+import { writeCompanyNotices, type LapseWatchDeps } from '../lapse-watch/lapse-watch.service.js';
+import { sendDueNotices, type SendOutcome } from '../lapse-watch/lapse-sender.js';
 
-const LOCK = `hashtext('beadroll.lapse-watch')`;
+const RUN_LOCK = `hashtext('beadroll.lapse-watch')`;
+const SENDER_LOCK = `hashtext('beadroll.lapse-sender')`;
 
 export interface LapseWatchOptions {
-  /** Day to judge lapses on; default today (server time zone). */
+  /** Must be today in each company's time zone when given (a guard for the CLI and "Run now"). */
   asOf?: string;
   trigger: LapseWatchRun['trigger'];
   /** Only these companies; default all. */
   organizationIds?: string[];
-  /** Name of this instance in the run history; default host:pid. */
+  /** Name of this instance in the logs and the database; default host:pid. */
   instance?: string;
   /** Stops a run between companies (shutdown); companies not reached wait for the next run. */
   signal?: AbortSignal;
 }
 
+const instanceName = () => `${hostname()}:${process.pid}`;
+
+/** Each covered company with its today; a given asOf that is not some company's today is refused. */
+async function companyDays(deps: LapseWatchDeps, opts: LapseWatchOptions, at: Date) {
+  const db = deps.dataSource.manager;
+  const only = opts.organizationIds ?? null;
+  const [companies, settings] = await Promise.all([repo.companiesOf(db, only), settingsOfCompanies(db, only)]);
+  const days = companies.map((c) => {
+    const s = settings.get(c.id)!;
+    return { ...c, settings: s, today: wallTimeIn(s.timeZone, at).day };
+  });
+  const wrong = opts.asOf ? days.find((d) => d.today !== opts.asOf) : undefined;
+  if (wrong)
+    throw AppError.validation(
+      {
+        asOf: `A run can only be dated today: ${wrong.today} in ${wrong.settings.timeZone}. Use Preview to look at other days.`,
+      },
+      'A lapse-watch run sends real notices and can only be dated today',
+    );
+  return days;
+}
+
 export async function runLapseWatch(deps: LapseWatchDeps, opts: LapseWatchOptions): Promise<LapseWatchRun[]> {
   const startedAt = deps.clock.now();
-  const asOf = opts.asOf ?? isoDay(startedAt);
-  const instance = opts.instance ?? `${hostname()}:${process.pid}`;
-  const only = opts.organizationIds ?? null;
+  const instance = opts.instance ?? instanceName();
+  const companies = await companyDays(deps, opts, startedAt);
   const lockHolder = deps.dataSource.createQueryRunner();
   await lockHolder.connect();
   try {
-    const [lock] = (await lockHolder.query(`SELECT pg_try_advisory_lock(${LOCK}) AS locked`)) as {
+    const [lock] = (await lockHolder.query(`SELECT pg_try_advisory_lock(${RUN_LOCK}) AS locked`)) as {
       locked: boolean;
     }[];
     if (!lock?.locked) {
-      const organizationId = only?.length === 1 ? only[0]! : null;
-      const id = await repo.insertRun(deps.dataSource.manager, {
-        organizationId,
-        asOf,
-        trigger: opts.trigger,
-        instance,
-        status: 'skipped',
-        startedAt,
-        finishedAt: deps.clock.now(),
-        error: 'Another instance is running lapse watch',
-      });
-      deps.logger.warn(
-        { asOf, trigger: opts.trigger, instance },
-        'lapse watch skipped: another instance holds the lock',
-      );
-      return [(await repo.findRun(deps.dataSource.manager, id))!];
+      const runs: LapseWatchRun[] = [];
+      for (const c of companies) {
+        const id = await repo.insertRun(deps.dataSource.manager, {
+          organizationId: c.id,
+          asOf: c.today,
+          trigger: opts.trigger,
+          instance,
+          status: 'skipped',
+          startedAt,
+          finishedAt: deps.clock.now(),
+          error: 'Another server was running lapse watch at the same moment; it did the work',
+        });
+        runs.push((await repo.findRun(deps.dataSource.manager, id))!);
+      }
+      deps.logger.warn({ trigger: opts.trigger, instance }, 'lapse watch skipped: another instance holds the lock');
+      return runs;
     }
     try {
-      return await runLocked(deps, {
-        asOf,
-        trigger: opts.trigger,
-        instance,
-        only,
-        startedAt,
-        signal: opts.signal,
-      });
+      return await runLocked(deps, { companies, trigger: opts.trigger, instance, startedAt, signal: opts.signal });
     } finally {
-      await lockHolder.query(`SELECT pg_advisory_unlock(${LOCK})`);
+      await lockHolder.query(`SELECT pg_advisory_unlock(${RUN_LOCK})`);
     }
   } finally {
     await lockHolder.release();
@@ -78,64 +99,42 @@ export async function runLapseWatch(deps: LapseWatchDeps, opts: LapseWatchOption
 async function runLocked(
   deps: LapseWatchDeps,
   p: {
-    asOf: string;
+    companies: Awaited<ReturnType<typeof companyDays>>;
     trigger: LapseWatchRun['trigger'];
     instance: string;
-    only: string[] | null;
     startedAt: Date;
     signal: AbortSignal | undefined;
   },
 ): Promise<LapseWatchRun[]> {
   const db = deps.dataSource.manager;
-  const [companies, settings] = await Promise.all([
-    repo.companiesOf(db, p.only),
-    settingsOfCompanies(db, p.only),
-  ]);
   const runs: LapseWatchRun[] = [];
-  for (const company of companies) {
+  for (const company of p.companies) {
     if (p.signal?.aborted) break;
-    const base = { organizationId: company.id, asOf: p.asOf, trigger: p.trigger, instance: p.instance };
-    let runId: string | null = null;
+    const base = { organizationId: company.id, asOf: company.today, trigger: p.trigger, instance: p.instance };
+    let runId: string;
     try {
-      const written = await writeCompanyNotices(
-        deps,
-        { ...base, startedAt: p.startedAt },
-        settings.get(company.id)!,
-      );
+      const written = await writeCompanyNotices(deps, { ...base, startedAt: p.startedAt }, company.settings);
       runId = written.runId;
-      const sent = await sendCompanyDigests(deps, company.id, company.name, p.asOf);
-      await repo.finishRun(db, runId, {
-        status: 'done',
-        noticesCreated: written.noticesCreated,
-        ...sent,
-        error: null,
-        finishedAt: deps.clock.now(),
-      });
-      deps.logger.info(
-        { ...base, runId, noticesCreated: written.noticesCreated, ...sent },
-        'lapse watch done',
-      );
+      deps.logger.info({ ...base, runId, noticesCreated: written.noticesCreated }, 'lapse watch notices written');
     } catch (err) {
-      // One company's failure is recorded and does not stop the others.
+      // One company's failure is recorded and does not stop the others; the day is not done.
       const error = err instanceof Error ? err.message : String(err);
       deps.logger.error({ ...base, err }, 'lapse watch failed');
-      const failed = {
-        status: 'failed' as const,
-        noticesCreated: 0,
-        emailsSent: 0,
-        emailsFailed: 0,
-        error,
+      runId = await repo.insertRun(db, {
+        ...base,
+        status: 'failed',
+        startedAt: p.startedAt,
         finishedAt: deps.clock.now(),
-      };
-      if (runId) await repo.finishRun(db, runId, failed);
-      else
-        runId = await repo.insertRun(db, {
-          ...base,
-          status: 'failed',
-          startedAt: p.startedAt,
-          finishedAt: failed.finishedAt,
-          error,
-        });
+        error,
+      });
+      runs.push((await repo.findRun(db, runId))!);
+      continue;
+    }
+    try {
+      // Send straight away; what fails here is retried by the frequent sender, which finishes the run.
+      await sendDueNotices(deps, { organizationIds: [company.id] });
+    } catch (err) {
+      deps.logger.error({ ...base, runId, err }, 'lapse watch: sending interrupted; the sender will carry on');
     }
     runs.push((await repo.findRun(db, runId))!);
   }
@@ -143,9 +142,9 @@ async function runLocked(
 }
 
 /**
- * One tick of the daily schedule at `now`: a run for the companies whose lapse_watch_time (HH:MM, server
- * time zone) has come and that have no scheduled run for today (the API's calendar day) yet.
- * `among` narrows the companies considered (tests).
+ * One tick of the daily schedule at `now`: a run for each company whose lapse_watch_time (HH:MM on the
+ * company's own wall clock) has come today (the company's day) and that has no scheduled run for that
+ * day yet. `among` narrows the companies considered (tests).
  */
 export async function runDueLapseWatch(
   deps: LapseWatchDeps,
@@ -153,31 +152,54 @@ export async function runDueLapseWatch(
   among?: string[],
   signal?: AbortSignal,
 ): Promise<LapseWatchRun[]> {
-  const due = await repo.dueCompanies(
-    deps.dataSource.manager,
-    isoDay(now),
-    format(now, 'HH:mm'),
-    among ?? null,
-  );
+  const db = deps.dataSource.manager;
+  const settings = await settingsOfCompanies(db, among ?? null);
+  const timeHas = [...settings].flatMap(([organizationId, s]) => {
+    const wall = wallTimeIn(s.timeZone, now);
+    return wall.hhmm >= s.lapseWatchTime ? [{ organizationId, day: wall.day }] : [];
+  });
+  const done = await repo.scheduledRunDays(db, timeHas);
+  const due = timeHas.filter((d) => !done.has(d.organizationId)).map((d) => d.organizationId);
   return due.length > 0
-    ? runLapseWatch(deps, {
-        asOf: isoDay(now),
-        trigger: 'schedule',
-        organizationIds: due,
-        ...(signal ? { signal } : {}),
-      })
+    ? runLapseWatch(deps, { trigger: 'schedule', organizationIds: due, ...(signal ? { signal } : {}) })
     : [];
 }
 
 /**
- * The daily schedule: a node-cron task every minute runs the tick above. One cron for every company's
- * time keeps a changed setting effective at once; the advisory lock keeps two instances from both
- * running it (the second records a skip).
+ * One tick of the frequent sender: sends what is due under the sender lock; null when another instance
+ * holds it (it is sending right now).
+ */
+export async function runSenderTick(deps: LapseWatchDeps): Promise<SendOutcome | null> {
+  const lockHolder = deps.dataSource.createQueryRunner();
+  await lockHolder.connect();
+  try {
+    const [lock] = (await lockHolder.query(`SELECT pg_try_advisory_lock(${SENDER_LOCK}) AS locked`)) as {
+      locked: boolean;
+    }[];
+    if (!lock?.locked) return null;
+    try {
+      return await sendDueNotices(deps);
+    } finally {
+      await lockHolder.query(`SELECT pg_advisory_unlock(${SENDER_LOCK})`);
+    }
+  } finally {
+    await lockHolder.release();
+  }
+}
+
+/** How often the sender looks for due deliveries (the first retry comes 15 minutes after a failure). */
+export const SENDER_CRON = '*/2 * * * *';
+
+/**
+ * The schedule: node-cron every minute runs the daily tick above (one cron for every company's time keeps
+ * a changed setting effective at once), and every two minutes the sender. Neither tick starts while its
+ * previous one is still running.
  */
 export function startLapseWatchSchedule(deps: LapseWatchDeps): { stop(): Promise<void> } {
   let running: Promise<unknown> | null = null;
+  let sending: Promise<unknown> | null = null;
   const stopping = new AbortController();
-  const task = cron.schedule('* * * * *', () => {
+  const daily = cron.schedule('* * * * *', () => {
     if (running) return;
     running = runDueLapseWatch(deps, deps.clock.now(), undefined, stopping.signal)
       .catch((err: unknown) => deps.logger.error({ err }, 'lapse-watch schedule tick failed'))
@@ -185,11 +207,19 @@ export function startLapseWatchSchedule(deps: LapseWatchDeps): { stop(): Promise
         running = null;
       });
   });
+  const sender = cron.schedule(SENDER_CRON, () => {
+    if (sending || stopping.signal.aborted) return;
+    sending = runSenderTick(deps)
+      .catch((err: unknown) => deps.logger.error({ err }, 'lapse sender tick failed'))
+      .finally(() => {
+        sending = null;
+      });
+  });
   return {
     async stop() {
       stopping.abort();
-      await task.stop();
-      await running;
+      await Promise.all([daily.stop(), sender.stop()]);
+      await Promise.all([running, sending]);
     },
   };
 }

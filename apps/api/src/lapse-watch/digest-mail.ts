@@ -9,6 +9,8 @@ export interface DigestItem {
   name: string;
   process: string;
   code: string;
+  /** 'lapsed', a lead time in days, or 'restored' (the lapse moved away again). */
+  threshold: string;
   lapsesOn: string;
   lastUse: string | null;
 }
@@ -27,6 +29,8 @@ const GOVERNS =
 
 function when(item: DigestItem, asOf: string): string {
   const days = daysBetween(asOf, item.lapsesOn);
+  if (item.threshold === 'restored')
+    return `back in continuity after a correction of the records; now lapses on ${item.lapsesOn} (${days} days left)`;
   if (days > 0) return `lapses on ${item.lapsesOn} (${days} day${days === 1 ? '' : 's'} left)`;
   // lapsesOn is the first day without qualification; the last qualified day is the day before.
   const ago = -days;
@@ -41,11 +45,14 @@ export function digestMail(p: {
   appUrl: string;
   items: DigestItem[];
 }): Mail {
-  const lapsed = p.items.filter((i) => i.lapsesOn <= p.asOf).length;
-  const lapsing = p.items.length - lapsed;
-  const parts = [lapsing > 0 ? `${lapsing} lapsing` : '', lapsed > 0 ? `${lapsed} lapsed` : ''].filter(
-    Boolean,
-  );
+  const restored = p.items.filter((i) => i.threshold === 'restored').length;
+  const lapsed = p.items.filter((i) => i.threshold !== 'restored' && i.lapsesOn <= p.asOf).length;
+  const lapsing = p.items.length - lapsed - restored;
+  const parts = [
+    lapsing > 0 ? `${lapsing} lapsing` : '',
+    lapsed > 0 ? `${lapsed} lapsed` : '',
+    restored > 0 ? `${restored} back in continuity` : '',
+  ].filter(Boolean);
   const subject = `${p.companyName} lapse watch ${p.asOf}: ${parts.join(', ')}`;
   const link = (i: DigestItem) => `${p.appUrl}/welders/${i.welderId}`;
   const lastUse = (i: DigestItem) => (i.lastUse ? `last logged use or test ${i.lastUse}` : 'no logged use');
@@ -53,7 +60,7 @@ export function digestMail(p: {
   const text = [
     `Hello ${p.recipientName},`,
     '',
-    `Lapse watch for ${p.companyName} on ${p.asOf}: these welders need documented use of the process (or a new test) to stay qualified.`,
+    `Lapse watch for ${p.companyName} on ${p.asOf}: ${restored === p.items.length ? 'a correction of the records changed what you were told about these welders.' : 'these welders need documented use of the process (or a new test) to stay qualified.'}`,
     '',
     ...p.items.map(
       (i) =>
@@ -68,7 +75,7 @@ export function digestMail(p: {
   const rows = p.items
     .map((i) => {
       const days = daysBetween(p.asOf, i.lapsesOn);
-      return `<tr><td>${escapeHtml(i.stamp)}</td><td><a href="${escapeHtml(link(i))}">${escapeHtml(i.name)}</a></td><td>${escapeHtml(i.process)}</td><td>${escapeHtml(codeName(i.code))}</td><td>${i.lapsesOn}</td><td>${days > 0 ? String(days) : 'lapsed'}</td><td>${i.lastUse ?? '—'}</td></tr>`;
+      return `<tr><td>${escapeHtml(i.stamp)}</td><td><a href="${escapeHtml(link(i))}">${escapeHtml(i.name)}</a></td><td>${escapeHtml(i.process)}</td><td>${escapeHtml(codeName(i.code))}</td><td>${i.lapsesOn}</td><td>${i.threshold === 'restored' ? `back in continuity (${days})` : days > 0 ? String(days) : 'lapsed'}</td><td>${i.lastUse ?? '—'}</td></tr>`;
     })
     .join('\n');
   const html = `<!doctype html><html><body style="font-family: sans-serif">

@@ -1,19 +1,20 @@
 import { EntitySchema } from 'typeorm';
 import { col } from '../lib/entity-columns.js';
 
-/** One invocation of the lapse-watch job for one company (or, when skipped, for all of them). */
+/** One invocation of the lapse-watch job for one company (skipped ones too). */
 export interface LapseWatchRunRow {
   id: string;
-  organizationId: string | null;
+  organizationId: string;
   asOf: string;
   startedAt: Date;
   finishedAt: Date | null;
   trigger: 'schedule' | 'manual' | 'cli';
   instance: string;
-  status: 'done' | 'skipped' | 'failed';
+  status: 'sending' | 'done' | 'skipped' | 'failed';
   noticesCreated: number;
   emailsSent: number;
   emailsFailed: number;
+  emailsSuperseded: number;
   error: string | null;
 }
 
@@ -22,7 +23,7 @@ export const LapseWatchRunEntity = new EntitySchema<LapseWatchRunRow>({
   tableName: 'lapse_watch_runs',
   columns: {
     id: col.id(),
-    organizationId: col.uuid('organization_id', true),
+    organizationId: col.uuid('organization_id'),
     asOf: { type: 'date', name: 'as_of' },
     startedAt: col.at('started_at'),
     finishedAt: col.at('finished_at', true),
@@ -32,6 +33,7 @@ export const LapseWatchRunEntity = new EntitySchema<LapseWatchRunRow>({
     noticesCreated: col.int('notices_created'),
     emailsSent: col.int('emails_sent'),
     emailsFailed: col.int('emails_failed'),
+    emailsSuperseded: col.int('emails_superseded'),
     error: col.text('error', true),
   },
 });
@@ -67,12 +69,19 @@ export interface NoticeDeliveryRow {
   noticeId: string;
   userId: string;
   email: string;
-  status: 'pending' | 'sent' | 'failed';
+  status: 'pending' | 'sent' | 'failed' | 'superseded';
   attempts: number;
   nextAttemptAt: Date | null;
   lastError: string | null;
   sentAt: Date | null;
+  /** The Message-ID the SMTP server accepted the digest under. */
   messageId: string | null;
+  /** A sender's lease on the delivery (lapse-sender.ts). */
+  claimToken: string | null;
+  claimedUntil: Date | null;
+  /** When it was sent, given up or superseded. */
+  settledAt: Date | null;
+  supersededReason: string | null;
 }
 
 export const NoticeDeliveryEntity = new EntitySchema<NoticeDeliveryRow>({
@@ -89,5 +98,9 @@ export const NoticeDeliveryEntity = new EntitySchema<NoticeDeliveryRow>({
     lastError: col.text('last_error', true),
     sentAt: col.at('sent_at', true),
     messageId: col.text('message_id', true),
+    claimToken: col.uuid('claim_token', true),
+    claimedUntil: col.at('claimed_until', true),
+    settledAt: col.at('settled_at', true),
+    supersededReason: col.text('superseded_reason', true),
   },
 });

@@ -2,7 +2,7 @@
 // index; notices and deliveries are written set-based with ON CONFLICT DO NOTHING, so a rerun, a backfill
 // or a second instance never duplicates one; digests claim their deliveries with FOR UPDATE SKIP LOCKED.
 import type { EntityManager } from 'typeorm';
-import { DEFAULT_COMPANY_SETTINGS, type LapseWatchRun } from '@beadroll/rules';
+import type { LapseWatchRun } from '@beadroll/rules';
 
 export interface ScanWindow {
   organizationId: string;
@@ -85,22 +85,100 @@ export async function writeNotices(
      RETURNING id`,
     [...params(w), runId, now],
   );
-  if (created.length === 0) return 0;
+  await addDeliveries(
+    db,
+    created.map((c) => c.id),
+    now,
+  );
+  return created.length;
+}
+
+/**
+ * Who is told about a welder: the company's active QA managers, and the active foremen of the welder's
+ * home shop as it is now (SQL condition on users `u` and welders `w`).
+ */
+export const supervisesSql = (u: string, w: string) => `(${u}.active AND ${u}.organization_id = ${w}.organization_id
+  AND (${u}.role = 'qa_manager'
+       OR (${u}.role = 'foreman'
+           AND EXISTS (SELECT 1 FROM foreman_shops fs WHERE fs.user_id = ${u}.id AND fs.shop_id = ${w}.home_shop_id))))`;
+
+/** A pending delivery of each given notice to each of its recipients (none twice). */
+export async function addDeliveries(db: EntityManager, noticeIds: string[], now: Date): Promise<void> {
+  if (noticeIds.length === 0) return;
   await db.query(
     `INSERT INTO notice_deliveries (notice_id, user_id, email, status, attempts, next_attempt_at)
      SELECT n.id, u.id, u.email, 'pending', 0, $2
        FROM lapse_notices n
        JOIN qualifications q ON q.id = n.qualification_id
        JOIN welders w ON w.id = q.welder_id
-       JOIN users u ON u.organization_id = n.organization_id AND u.active
-        AND (u.role = 'qa_manager'
-             OR (u.role = 'foreman'
-                 AND EXISTS (SELECT 1 FROM foreman_shops fs WHERE fs.user_id = u.id AND fs.shop_id = w.home_shop_id)))
+       JOIN users u ON ${supervisesSql('u', 'w')}
       WHERE n.id = ANY($1::uuid[])
      ON CONFLICT ON CONSTRAINT notice_deliveries_once_key DO NOTHING`,
-    [created.map((c) => c.id), now],
+    [noticeIds, now],
+  );
+}
+
+/** Notices of a lapse move, written by the refresh that moved it (lapse-events.ts decides which). */
+export async function insertMoveNotices(
+  db: EntityManager,
+  organizationId: string,
+  rows: { qualificationId: string; threshold: string; lapsesOn: string }[],
+  now: Date,
+): Promise<number> {
+  if (rows.length === 0) return 0;
+  const created = await db.query<{ id: string }[]>(
+    `INSERT INTO lapse_notices (organization_id, qualification_id, threshold, lapses_on, run_id, created_at)
+     SELECT $1, x.q, x.t, x.d, NULL, $5
+       FROM unnest($2::uuid[], $3::text[], $4::date[]) AS x(q, t, d)
+     ON CONFLICT ON CONSTRAINT lapse_notices_once_key DO NOTHING
+     RETURNING id`,
+    [
+      organizationId,
+      rows.map((r) => r.qualificationId),
+      rows.map((r) => r.threshold),
+      rows.map((r) => r.lapsesOn),
+      now,
+    ],
+  );
+  await addDeliveries(
+    db,
+    created.map((c) => c.id),
+    now,
   );
   return created.length;
+}
+
+/** The qualifications in force behind moved pairs, and whether anyone was sent a notice of the old date. */
+export async function movedQualifications(
+  db: EntityManager,
+  organizationId: string,
+  today: string,
+  moves: { welderId: string; process: string; code: string; qualificationId: string | null; before: string | null; after: string | null }[],
+): Promise<{ qualificationId: string; before: string | null; after: string; told: boolean }[]> {
+  return db.query(
+    `SELECT q.id AS "qualificationId", to_char(m.before, 'YYYY-MM-DD') AS before, to_char(m.after, 'YYYY-MM-DD') AS after,
+            EXISTS (SELECT 1 FROM lapse_notices n JOIN notice_deliveries d ON d.notice_id = n.id
+                     WHERE n.qualification_id = q.id AND n.lapses_on = m.before AND n.threshold <> 'restored'
+                       AND d.status = 'sent') AS told
+       FROM unnest($2::uuid[], $3::text[], $4::text[], $5::uuid[], $6::date[], $7::date[])
+              AS m(welder_id, process, code, qualification_id, before, after)
+       JOIN qualifications q ON q.welder_id = m.welder_id AND q.process = m.process AND q.code = m.code
+                            AND (m.qualification_id IS NULL OR q.id = m.qualification_id)
+       JOIN welders w ON w.id = q.welder_id
+      WHERE q.organization_id = $1 AND w.active AND q.superseded_by_id IS NULL
+        AND (q.revoked_on IS NULL OR q.revoked_on > $8::date)
+        AND m.after IS NOT NULL`,
+    [
+      organizationId,
+      moves.map((m) => m.welderId),
+      moves.map((m) => m.process),
+      moves.map((m) => m.code),
+      moves.map((m) => m.qualificationId),
+      moves.map((m) => m.before),
+      moves.map((m) => m.after),
+      today,
+    ],
+  );
 }
 
 export interface Recipient {
@@ -128,28 +206,76 @@ export async function recipientsOf(db: EntityManager, organizationId: string): P
 export async function previousRunDay(db: EntityManager, organizationId: string, asOf: string) {
   const [row] = await db.query<{ day: string | null }[]>(
     `SELECT to_char(max(as_of), 'YYYY-MM-DD') AS day FROM lapse_watch_runs
-      WHERE organization_id = $1 AND status = 'done' AND as_of < $2::date`,
+      WHERE organization_id = $1 AND status IN ('sending', 'done') AND as_of < $2::date`,
     [organizationId, asOf],
   );
   return row?.day ?? null;
 }
 
-/** Recipients with deliveries of this company due at `now`. */
-export async function dueRecipients(db: EntityManager, organizationId: string, now: Date): Promise<string[]> {
-  const rows = await db.query<{ userId: string }[]>(
-    `SELECT DISTINCT d.user_id AS "userId"
-       FROM notice_deliveries d JOIN lapse_notices n ON n.id = d.notice_id
-      WHERE n.organization_id = $1 AND d.status = 'pending' AND d.next_attempt_at <= $2`,
-    [organizationId, now],
+/** Deliveries still being delivered reach whoever supervises the welder now (a welder moved shops). */
+export async function addNewSupervisors(db: EntityManager, organizationIds: string[] | null, now: Date): Promise<void> {
+  await db.query(
+    `INSERT INTO notice_deliveries (notice_id, user_id, email, status, attempts, next_attempt_at)
+     SELECT n.id, u.id, u.email, 'pending', 0, $2
+       FROM lapse_notices n
+       JOIN qualifications q ON q.id = n.qualification_id
+       JOIN welders w ON w.id = q.welder_id
+       JOIN users u ON ${supervisesSql('u', 'w')}
+      WHERE ($1::uuid[] IS NULL OR n.organization_id = ANY($1::uuid[]))
+        AND n.id IN (SELECT d.notice_id FROM notice_deliveries d WHERE d.status = 'pending')
+     ON CONFLICT ON CONSTRAINT notice_deliveries_once_key DO NOTHING`,
+    [organizationIds, now],
   );
-  return rows.map((r) => r.userId);
 }
 
-export interface DigestLine {
+/** (company, recipient) pairs with deliveries due at `now` and not claimed by a live sender. */
+export async function dueRecipients(
+  db: EntityManager,
+  organizationIds: string[] | null,
+  now: Date,
+): Promise<{ organizationId: string; userId: string }[]> {
+  return db.query(
+    `SELECT DISTINCT n.organization_id AS "organizationId", d.user_id AS "userId"
+       FROM notice_deliveries d JOIN lapse_notices n ON n.id = d.notice_id
+      WHERE d.status = 'pending' AND d.next_attempt_at <= $2
+        AND (d.claimed_until IS NULL OR d.claimed_until <= $2)
+        AND ($1::uuid[] IS NULL OR n.organization_id = ANY($1::uuid[]))
+      ORDER BY 1, 2`,
+    [organizationIds, now],
+  );
+}
+
+/**
+ * Claims a recipient's due deliveries for `leaseMs` under `token` (one statement, committed at once):
+ * a concurrent sender skips them, and if this sender dies the claim runs out and another takes over.
+ */
+export async function claimDue(
+  db: EntityManager,
+  organizationId: string,
+  userId: string,
+  token: string,
+  now: Date,
+  leaseMs: number,
+): Promise<string[]> {
+  const rows = await db.query<{ id: string }[]>(
+    `WITH c AS (
+       SELECT d.id FROM notice_deliveries d JOIN lapse_notices n ON n.id = d.notice_id
+        WHERE d.user_id = $2 AND n.organization_id = $1 AND d.status = 'pending' AND d.next_attempt_at <= $4
+          AND (d.claimed_until IS NULL OR d.claimed_until <= $4)
+        FOR UPDATE OF d SKIP LOCKED),
+     u AS (UPDATE notice_deliveries d SET claim_token = $3, claimed_until = $4::timestamptz + $5 * interval '1 millisecond'
+             FROM c WHERE d.id = c.id RETURNING d.id)
+     SELECT id FROM u`,
+    [organizationId, userId, token, now, leaseMs],
+  );
+  return rows.map((r) => r.id);
+}
+
+export interface ClaimedLine {
   deliveryId: string;
+  /** The recipient's e-mail address now (an address changed since the notice goes to the new one). */
   email: string;
   recipientName: string;
-  attempts: number;
   qualificationId: string;
   welderId: string;
   stamp: string;
@@ -159,44 +285,90 @@ export interface DigestLine {
   threshold: string;
   lapsesOn: string;
   lastUse: string | null;
+  /** Why the delivery no longer applies, or null when it still does. */
+  stale: string | null;
 }
 
-/** Claims a recipient's due deliveries (row locks held until the caller's transaction ends). */
-export async function claimDueDeliveries(
-  db: EntityManager,
-  organizationId: string,
-  userId: string,
-  now: Date,
-): Promise<DigestLine[]> {
-  return db.query<DigestLine[]>(
-    `SELECT d.id AS "deliveryId", d.email, u.name AS "recipientName", d.attempts,
+/**
+ * The claimed deliveries, each re-checked against the records as they are now (just before sending):
+ * the recipient still active and supervising the welder, the welder still with the company, the
+ * qualification neither renewed by a newer one nor revoked before the lapse, the pair's lapse date
+ * unchanged, and a warning not overtaken by the lapse itself.
+ */
+export async function recheckClaimed(db: EntityManager, token: string, today: string): Promise<ClaimedLine[]> {
+  return db.query<ClaimedLine[]>(
+    `SELECT d.id AS "deliveryId", u.email, u.name AS "recipientName",
             q.id AS "qualificationId", w.id AS "welderId", w.stamp, w.name, q.process, q.code, n.threshold,
-            to_char(n.lapses_on, 'YYYY-MM-DD') AS "lapsesOn", to_char(cs.last_evidence, 'YYYY-MM-DD') AS "lastUse"
+            to_char(n.lapses_on, 'YYYY-MM-DD') AS "lapsesOn", to_char(cs.last_evidence, 'YYYY-MM-DD') AS "lastUse",
+            CASE
+              WHEN NOT u.active THEN 'The recipient is no longer active'
+              WHEN NOT ${supervisesSql('u', 'w')} THEN 'The recipient no longer supervises the welder''s shop'
+              WHEN NOT w.active THEN 'The welder has left the company'
+              WHEN q.superseded_by_id IS NOT NULL THEN 'The qualification was renewed by a newer one'
+              WHEN q.revoked_on IS NOT NULL AND q.revoked_on <= greatest(n.lapses_on, $2::date)
+                THEN 'The qualification was revoked on ' || to_char(q.revoked_on, 'YYYY-MM-DD')
+              WHEN cs.lapses_on IS DISTINCT FROM n.lapses_on
+                THEN 'The lapse date moved to ' || coalesce(to_char(cs.lapses_on, 'YYYY-MM-DD'), 'none')
+              WHEN n.threshold ~ '^[0-9]+$' AND n.lapses_on <= $2::date THEN 'The qualification has lapsed since'
+            END AS stale
        FROM notice_deliveries d
        JOIN users u ON u.id = d.user_id
        JOIN lapse_notices n ON n.id = d.notice_id
        JOIN qualifications q ON q.id = n.qualification_id
        JOIN welders w ON w.id = q.welder_id
        LEFT JOIN continuity_states cs ON cs.welder_id = q.welder_id AND cs.process = q.process AND cs.code = q.code
-      WHERE d.user_id = $2 AND n.organization_id = $1 AND d.status = 'pending' AND d.next_attempt_at <= $3
-      ORDER BY n.lapses_on, w.stamp, q.process, n.threshold
-        FOR UPDATE OF d SKIP LOCKED`,
-    [organizationId, userId, now],
+      WHERE d.claim_token = $1 AND d.status = 'pending'
+      ORDER BY n.lapses_on, w.stamp, q.process, n.threshold`,
+    [token, today],
   );
 }
 
-export async function markSent(db: EntityManager, ids: string[], now: Date): Promise<void> {
+/** Drops claimed deliveries that no longer apply, each with its reason. */
+export async function markSuperseded(
+  db: EntityManager,
+  token: string,
+  lines: { deliveryId: string; reason: string }[],
+  now: Date,
+): Promise<void> {
+  if (lines.length === 0) return;
   await db.query(
-    `UPDATE notice_deliveries SET status = 'sent', sent_at = $2, attempts = attempts + 1, last_error = NULL,
-            next_attempt_at = NULL
-      WHERE id = ANY($1::uuid[])`,
-    [ids, now],
+    `UPDATE notice_deliveries d SET status = 'superseded', superseded_reason = x.reason, settled_at = $4,
+            claim_token = NULL, claimed_until = NULL, next_attempt_at = NULL
+       FROM unnest($2::uuid[], $3::text[]) AS x(id, reason)
+      WHERE d.id = x.id AND d.claim_token = $1 AND d.status = 'pending'`,
+    [token, lines.map((l) => l.deliveryId), lines.map((l) => l.reason), now],
   );
+}
+
+/**
+ * Records a digest the SMTP server accepted: one statement, straight after the acceptance. Returns how
+ * many of the deliveries were still held by this claim (fewer means the claim ran out first and another
+ * sender may send them again: the one duplicate that at-least-once delivery allows).
+ */
+export async function markSent(
+  db: EntityManager,
+  token: string,
+  ids: string[],
+  email: string,
+  messageId: string,
+  now: Date,
+): Promise<number> {
+  const [row] = await db.query<{ n: number }[]>(
+    `WITH u AS (
+       UPDATE notice_deliveries SET status = 'sent', sent_at = $4, settled_at = $4, attempts = attempts + 1,
+              last_error = NULL, next_attempt_at = NULL, claim_token = NULL, claimed_until = NULL,
+              email = $3, message_id = $5
+        WHERE id = ANY($2::uuid[]) AND claim_token = $1 AND status = 'pending' RETURNING 1)
+     SELECT count(*)::int AS n FROM u`,
+    [token, ids, email, now, messageId],
+  );
+  return row?.n ?? 0;
 }
 
 /** A failed send: retried after 15 min × 2^(earlier attempts), at most 24 h; after `maxAttempts` it is failed. */
 export async function markFailed(
   db: EntityManager,
+  token: string,
   ids: string[],
   now: Date,
   error: string,
@@ -204,18 +376,45 @@ export async function markFailed(
 ): Promise<void> {
   await db.query(
     `UPDATE notice_deliveries
-        SET attempts = attempts + 1, last_error = $3,
-            status = CASE WHEN attempts + 1 >= $4 THEN 'failed' ELSE 'pending' END,
-            next_attempt_at = CASE WHEN attempts + 1 >= $4 THEN NULL
-                                   ELSE $2::timestamptz + least(interval '15 minutes' * power(2, attempts), interval '24 hours') END
-      WHERE id = ANY($1::uuid[])`,
-    [ids, now, error.slice(0, 500), maxAttempts],
+        SET attempts = attempts + 1, last_error = $4, claim_token = NULL, claimed_until = NULL,
+            status = CASE WHEN attempts + 1 >= $5 THEN 'failed' ELSE 'pending' END,
+            settled_at = CASE WHEN attempts + 1 >= $5 THEN $3::timestamptz END,
+            next_attempt_at = CASE WHEN attempts + 1 >= $5 THEN NULL
+                                   ELSE $3::timestamptz + least(interval '15 minutes' * power(2, attempts), interval '24 hours') END
+      WHERE id = ANY($2::uuid[]) AND claim_token = $1 AND status = 'pending'`,
+    [token, ids, now, error.slice(0, 500), maxAttempts],
+  );
+}
+
+/**
+ * Brings the open runs of these companies up to date: their counts from their notices' deliveries, and
+ * 'done' once none of those deliveries is pending any more.
+ */
+export async function settleRuns(db: EntityManager, organizationIds: string[] | null, now: Date): Promise<void> {
+  await db.query(
+    `UPDATE lapse_watch_runs r
+        SET emails_sent = x.sent, emails_failed = x.failed, emails_superseded = x.superseded,
+            status = CASE WHEN x.pending = 0 THEN 'done' ELSE 'sending' END,
+            finished_at = CASE WHEN x.pending = 0 THEN $2::timestamptz END
+       FROM (SELECT r2.id,
+                    count(DISTINCT d.message_id) FILTER (WHERE d.status = 'sent')::int AS sent,
+                    count(DISTINCT d.user_id) FILTER (WHERE d.status = 'failed')::int AS failed,
+                    count(*) FILTER (WHERE d.status = 'superseded')::int AS superseded,
+                    count(*) FILTER (WHERE d.status = 'pending')::int AS pending
+               FROM lapse_watch_runs r2
+               LEFT JOIN lapse_notices n ON n.run_id = r2.id
+               LEFT JOIN notice_deliveries d ON d.notice_id = n.id
+              WHERE r2.status = 'sending' AND ($1::uuid[] IS NULL OR r2.organization_id = ANY($1::uuid[]))
+              GROUP BY r2.id) x
+      WHERE r.id = x.id`,
+    [organizationIds, now],
   );
 }
 
 const runColumns = `id, organization_id AS "organizationId", to_char(as_of, 'YYYY-MM-DD') AS "asOf",
-  started_at AS "startedAt", finished_at AS "finishedAt", trigger, instance, status,
-  notices_created AS "noticesCreated", emails_sent AS "emailsSent", emails_failed AS "emailsFailed", error`;
+  started_at AS "startedAt", finished_at AS "finishedAt", trigger, status,
+  notices_created AS "noticesCreated", emails_sent AS "emailsSent", emails_failed AS "emailsFailed",
+  emails_superseded AS "emailsSuperseded", error`;
 
 type RunRaw = Omit<LapseWatchRun, 'startedAt' | 'finishedAt'> & { startedAt: Date; finishedAt: Date | null };
 const toRun = (r: RunRaw): LapseWatchRun => ({
@@ -226,7 +425,10 @@ const toRun = (r: RunRaw): LapseWatchRun => ({
 
 export async function insertRun(
   db: EntityManager,
-  run: Pick<LapseWatchRun, 'organizationId' | 'asOf' | 'trigger' | 'instance' | 'status'> & {
+  run: Pick<LapseWatchRun, 'asOf' | 'trigger' | 'status'> & {
+    organizationId: string;
+    /** host:pid of the instance, for the logs and the database (never shown to users). */
+    instance: string;
     startedAt: Date;
     finishedAt: Date | null;
     error?: string | null;
@@ -249,23 +451,8 @@ export async function insertRun(
   return row!.id;
 }
 
-export async function finishRun(
-  db: EntityManager,
-  id: string,
-  r: {
-    status: 'done' | 'failed';
-    noticesCreated: number;
-    emailsSent: number;
-    emailsFailed: number;
-    error: string | null;
-    finishedAt: Date;
-  },
-): Promise<void> {
-  await db.query(
-    `UPDATE lapse_watch_runs SET status = $2, notices_created = $3, emails_sent = $4, emails_failed = $5,
-            error = $6, finished_at = $7 WHERE id = $1`,
-    [id, r.status, r.noticesCreated, r.emailsSent, r.emailsFailed, r.error, r.finishedAt],
-  );
+export async function setNoticesCreated(db: EntityManager, id: string, noticesCreated: number): Promise<void> {
+  await db.query(`UPDATE lapse_watch_runs SET notices_created = $2 WHERE id = $1`, [id, noticesCreated]);
 }
 
 export async function findRun(db: EntityManager, id: string): Promise<LapseWatchRun | null> {
@@ -273,7 +460,7 @@ export async function findRun(db: EntityManager, id: string): Promise<LapseWatch
   return row ? toRun(row) : null;
 }
 
-/** Runs a company's QA manager sees: its own, and skipped runs of all companies. */
+/** The runs of one company (skipped ones included: each is stored with the company it was for). */
 export async function listRuns(
   db: EntityManager,
   organizationId: string,
@@ -281,7 +468,7 @@ export async function listRuns(
 ): Promise<LapseWatchRun[]> {
   const rows = await db.query<RunRaw[]>(
     `SELECT ${runColumns} FROM lapse_watch_runs
-      WHERE organization_id = $1 OR organization_id IS NULL
+      WHERE organization_id = $1
       ORDER BY started_at DESC, id DESC LIMIT $2`,
     [organizationId, limit],
   );
@@ -302,11 +489,12 @@ export interface NoticeRaw {
     userId: string;
     name: string;
     email: string;
-    status: 'pending' | 'sent' | 'failed';
+    status: 'pending' | 'sent' | 'failed' | 'superseded';
     attempts: number;
     nextAttemptAt: string | null;
     lastError: string | null;
     sentAt: string | null;
+    supersededReason: string | null;
   }[];
 }
 
@@ -325,7 +513,7 @@ export async function listNotices(
             coalesce((SELECT json_agg(json_build_object(
                         'userId', d.user_id, 'name', u.name, 'email', d.email, 'status', d.status,
                         'attempts', d.attempts, 'nextAttemptAt', d.next_attempt_at, 'lastError', d.last_error,
-                        'sentAt', d.sent_at) ORDER BY u.name)
+                        'sentAt', d.sent_at, 'supersededReason', d.superseded_reason) ORDER BY u.name)
                         FROM notice_deliveries d JOIN users u ON u.id = d.user_id
                        WHERE d.notice_id = n.id), '[]') AS deliveries
        FROM lapse_notices n
@@ -339,21 +527,20 @@ export async function listNotices(
   );
 }
 
-/** Companies whose daily time has come today (server time) and that have no scheduled run for today yet. */
-export async function dueCompanies(
+/** Companies among `ids` that already have a scheduled run (written or done) for their day. */
+export async function scheduledRunDays(
   db: EntityManager,
-  today: string,
-  hhmm: string,
-  among: string[] | null,
-): Promise<string[]> {
+  days: { organizationId: string; day: string }[],
+): Promise<Set<string>> {
+  if (days.length === 0) return new Set();
   const rows = await db.query<{ id: string }[]>(
-    `SELECT o.id FROM organizations o LEFT JOIN company_settings s ON s.organization_id = o.id
-      WHERE coalesce(s.lapse_watch_time, $3) <= $2 AND ($4::uuid[] IS NULL OR o.id = ANY($4::uuid[]))
-        AND NOT EXISTS (SELECT 1 FROM lapse_watch_runs r
-                         WHERE r.organization_id = o.id AND r.as_of = $1::date AND r.trigger = 'schedule' AND r.status = 'done')`,
-    [today, hhmm, DEFAULT_COMPANY_SETTINGS.lapseWatchTime, among],
+    `SELECT DISTINCT r.organization_id AS id
+       FROM unnest($1::uuid[], $2::date[]) AS x(organization_id, day)
+       JOIN lapse_watch_runs r ON r.organization_id = x.organization_id AND r.as_of = x.day
+      WHERE r.trigger = 'schedule' AND r.status IN ('sending', 'done')`,
+    [days.map((d) => d.organizationId), days.map((d) => d.day)],
   );
-  return rows.map((r) => r.id);
+  return new Set(rows.map((r) => r.id));
 }
 
 /** The companies a run covers: the given ones, or all. */

@@ -102,6 +102,10 @@ export function toAppError(err: unknown): AppError | null {
         return new AppError('validation', 'The request body encoding is not supported');
     }
   }
+  // A deadlock or serialization failure that escaped the retrying transaction helper (lib/transaction.ts).
+  const pg = (err as { code?: unknown; driverError?: { code?: unknown } }).driverError?.code ?? (err as { code?: unknown }).code;
+  if (pg === '40P01' || pg === '40001')
+    return new AppError('conflict', 'Someone else was saving related records at the same moment; nothing was saved. Try again.');
   if (isDatabaseUnavailable(err))
     return new AppError('unavailable', 'The database is not reachable; try again shortly');
   if (err instanceof URIError || isBadPathEncoding(err))

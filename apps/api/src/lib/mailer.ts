@@ -11,7 +11,8 @@ export interface Mail {
 }
 
 export interface Mailer {
-  send(mail: Mail): Promise<void>;
+  /** Resolves once the SMTP server has accepted the message, with the Message-ID it was sent under. */
+  send(mail: Mail): Promise<{ messageId: string }>;
   close(): void;
 }
 
@@ -33,13 +34,14 @@ export function createMailer(smtp: Config['smtp']): Mailer {
   });
   return {
     async send(mail) {
-      await transport.sendMail({
+      const info = await transport.sendMail({
         from: smtp.from,
         to: mail.to,
         subject: mail.subject,
         text: mail.text,
         html: mail.html,
       });
+      return { messageId: String(info.messageId ?? '') };
     },
     close() {
       transport.close();

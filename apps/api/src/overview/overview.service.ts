@@ -4,7 +4,7 @@ import type { Overview } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import type { Actor } from '../lib/scope.js';
 import { getCompanySettings } from '../settings/settings.repository.js';
-import { isoDay } from '../lib/dates.js';
+import { todayIn } from '../lib/dates.js';
 import { latestRun } from '../lapse-watch/lapse-watch.service.js';
 import * as repo from './overview.repository.js';
 
@@ -12,8 +12,8 @@ const HORIZON_DAYS = 90;
 
 export async function getOverview(deps: AppDeps, actor: Actor): Promise<Overview> {
   const db = deps.dataSource.manager;
-  const asOf = isoDay(deps.clock.now());
   const settings = await getCompanySettings(db, actor.organizationId);
+  const asOf = todayIn(settings.timeZone, deps.clock);
   const [counts, lapsesByWeek, reviewQueue, run, failedDeliveries] = await Promise.all([
     repo.countsByShop(db, actor, asOf, Math.max(...settings.warnDays)),
     repo.lapsesByWeek(db, actor, asOf, HORIZON_DAYS),

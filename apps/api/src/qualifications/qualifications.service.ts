@@ -18,7 +18,8 @@ import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
-import { isoDay } from '../lib/dates.js';
+import { todayIn } from '../lib/dates.js';
+import { companyTimeZone, companyToday } from '../settings/settings.repository.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
 import { getCoupon, lockCouponForCertification } from '../coupons/coupons.service.js';
 import { currentVerifyUrl } from '../verify/verify-tokens.service.js';
@@ -85,7 +86,8 @@ function toQualification(r: repo.QualificationRaw, asOf: string): Qualification 
   };
 }
 
-const today = (deps: AppDeps) => isoDay(deps.clock.now());
+/** Today in the company's own time zone (Settings). */
+const today = (deps: AppDeps, actor: Actor) => companyToday(deps.dataSource.manager, actor.organizationId, deps.clock);
 
 export async function listQualifications(deps: AppDeps, actor: Actor, q: ListQuery) {
   const superseded = q.state === 'all' ? undefined : q.state === 'superseded';
@@ -93,7 +95,7 @@ export async function listQualifications(deps: AppDeps, actor: Actor, q: ListQue
     ...(q.welderId ? { welderId: q.welderId } : {}),
     ...(superseded === undefined ? {} : { superseded }),
   });
-  const asOf = today(deps);
+  const asOf = (await today(deps, actor));
   const items = rows.map((r) => toQualification(r, asOf));
   const state = q.state;
   const byState = state && state !== 'all' && state !== 'superseded';
@@ -107,7 +109,7 @@ async function findRaw(deps: AppDeps, actor: Actor, id: string, db: EntityManage
 }
 
 export async function getQualification(deps: AppDeps, actor: Actor, id: string): Promise<Qualification> {
-  return toQualification(await findRaw(deps, actor, id), today(deps));
+  return toQualification(await findRaw(deps, actor, id), (await today(deps, actor)));
 }
 
 export async function certifyCoupon(
@@ -127,7 +129,7 @@ export async function certifyCoupon(
         throw AppError.validation({
           certifiedOn: `Certification cannot be before the test (${coupon.testedOn})`,
         });
-      if (input.certifiedOn > isoDay(now))
+      if (input.certifiedOn > todayIn(await companyTimeZone(db, actor.organizationId), now))
         throw AppError.validation({ certifiedOn: 'The certification date cannot be in the future' });
 
       let supersedes: Awaited<ReturnType<typeof repo.lockQualification>> = null;
@@ -279,7 +281,7 @@ export async function wpqPdf(
 ): Promise<{ pdf: Buffer; fileName: string }> {
   const q = await findRaw(deps, actor, id);
   const coupon = await getCoupon(deps, actor, q.couponId);
-  const asOf = today(deps);
+  const asOf = (await today(deps, actor));
   const status = qualificationStatus(q, asOf);
   const company = await repo.organizationName(deps.dataSource.manager, actor.organizationId);
   const verifyUrl = await currentVerifyUrl(deps, q.welder.id);
@@ -336,7 +338,7 @@ export function rangeSummary(ranges: Record<string, unknown>): string {
 /** The welder's qualifications that belong on a card or a verify page: not superseded, with today's status. */
 export async function welderQualificationsToday(deps: AppDeps, actor: Actor, welderId: string) {
   const rows = await repo.listQualifications(deps.dataSource.manager, actor, { welderId, superseded: false });
-  const asOf = today(deps);
+  const asOf = (await today(deps, actor));
   return rows.map((r) => ({ row: r, status: qualificationStatus(r, asOf) }));
 }
 
@@ -345,6 +347,13 @@ export async function walletCardPdf(
   actor: Actor,
   welder: { id: string; name: string; stamp: string; homeShop: string },
 ): Promise<{ pdf: Buffer; fileName: string }> {
+  const [left] = await deps.dataSource.manager.query<{ active: boolean }[]>(
+    `SELECT active FROM welders WHERE id = $1`,
+    [welder.id],
+  );
+  // A wallet card vouches for the welder today: none for someone who has left.
+  if (left && !left.active)
+    throw AppError.conflict(`${welder.name} is no longer with the company; no wallet card is issued`);
   const list = await welderQualificationsToday(deps, actor, welder.id);
   const company = await repo.organizationName(deps.dataSource.manager, actor.organizationId);
   const verifyUrl = await currentVerifyUrl(deps, welder.id);
@@ -366,7 +375,7 @@ export async function walletCardPdf(
   const pdf = await renderWalletCardPdf({
     company: { name: company },
     welder: { name: welder.name, stamp: welder.stamp, homeShop: welder.homeShop },
-    issuedOn: today(deps),
+    issuedOn: (await today(deps, actor)),
     verifyUrl,
     qualifications,
   });

@@ -7,6 +7,7 @@ export interface CompanySettingsRow {
   warnDays: number[];
   closedMonthAfter: number;
   lapseWatchTime: string;
+  timeZone: string | null;
   updatedAt: Date;
 }
 
@@ -18,6 +19,7 @@ export const CompanySettingsEntity = new EntitySchema<CompanySettingsRow>({
     warnDays: { type: 'integer', name: 'warn_days', array: true },
     closedMonthAfter: col.int('closed_month_after'),
     lapseWatchTime: col.text('lapse_watch_time'),
+    timeZone: col.text('time_zone', true),
     updatedAt: col.at('updated_at'),
   },
 });

@@ -1,20 +1,25 @@
-// Company settings (QA manager): lead times of the lapse warnings, when a continuity month closes, and
-// the daily time of the lapse-watch run. Every change is audited.
+// Company settings (QA manager): lead times of the lapse warnings, when a continuity month closes, the
+// daily time of the lapse-watch run and the company's time zone. Every change is audited.
 import type { CompanySettings, CompanySettingsInput } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import type { Actor } from '../lib/scope.js';
 import { diff, recordAudit } from '../lib/audit.js';
+import { serverTimeZone, todayIn } from '../lib/dates.js';
 import * as repo from './settings.repository.js';
 
-const toBody = (s: repo.CompanySettingsValues): CompanySettings => ({
+const toBody = (s: repo.CompanySettingsValues, now: Date): CompanySettings => ({
   warnDays: s.warnDays,
   closedMonthAfter: s.closedMonthAfter,
   lapseWatchTime: s.lapseWatchTime,
+  timeZone: s.timeZone,
+  timeZoneIsServerDefault: s.timeZoneChosen === null,
+  serverTimeZone: serverTimeZone(),
+  today: todayIn(s.timeZone, now),
   updatedAt: s.updatedAt ? s.updatedAt.toISOString() : null,
 });
 
 export async function getSettings(deps: AppDeps, actor: Actor): Promise<CompanySettings> {
-  return toBody(await repo.getCompanySettings(deps.dataSource.manager, actor.organizationId));
+  return toBody(await repo.getCompanySettings(deps.dataSource.manager, actor.organizationId), deps.clock.now());
 }
 
 export async function updateSettings(
@@ -24,11 +29,15 @@ export async function updateSettings(
 ): Promise<CompanySettings> {
   await deps.dataSource.transaction(async (db) => {
     const now = deps.clock.now();
+    // Lock first, then read: two QA managers saving at once each change what the other saved, never
+    // a copy read before the other's commit.
+    await repo.lockCompanySettings(db, actor.organizationId);
     const current = await repo.getCompanySettings(db, actor.organizationId);
     const before = {
       warnDays: current.warnDays,
       closedMonthAfter: current.closedMonthAfter,
       lapseWatchTime: current.lapseWatchTime,
+      timeZone: current.timeZoneChosen,
     };
     const after = {
       ...before,
@@ -37,7 +46,6 @@ export async function updateSettings(
     };
     const changes = diff(before, after);
     if (changes.changed.length === 0) return;
-    await repo.lockCompanySettings(db, actor.organizationId, now);
     await repo.updateCompanySettings(db, actor.organizationId, after, now);
     await recordAudit(db, actor, now, {
       action: 'company-settings.updated',
@@ -47,7 +55,7 @@ export async function updateSettings(
       after: changes.after,
     });
     deps.logger.info(
-      { organizationId: actor.organizationId, by: actor.id, ...diff(before, after) },
+      { organizationId: actor.organizationId, by: actor.id, ...changes },
       'company settings changed',
     );
   });

@@ -57,6 +57,13 @@ async function activeToken(db: EntityManager, welderId: string, lock = false) {
 }
 
 async function issueIn(deps: AppDeps, db: EntityManager, actor: Actor, welderId: string): Promise<string> {
+  const [welder] = await db.query<{ name: string; active: boolean }[]>(
+    `SELECT name, active FROM welders WHERE id = $1`,
+    [welderId],
+  );
+  // No card and no verify link vouch for someone who has left.
+  if (welder && !welder.active)
+    throw AppError.conflict(`${welder.name} is no longer with the company; no card or verify link is issued`);
   const now = deps.clock.now();
   const previous = await activeToken(db, welderId, true);
   if (previous) await db.query(`UPDATE verify_tokens SET revoked_at = $2 WHERE id = $1`, [previous.id, now]);
@@ -159,16 +166,34 @@ export async function verifyTokenStatus(
   return { active: current !== null, issuedAt: current ? current.issuedAt.toISOString() : null };
 }
 
-/** The welder and company a live token names, or null. */
+/**
+ * The welder and company a live token names, or null. With `evenIfLeft`, also a token revoked when its
+ * welder left (revoked at or after the welder's leaving), so the verify page can say so instead of
+ * "no longer valid"; `live` tells the two apart.
+ */
 export async function resolveVerifyToken(
   db: EntityManager,
   token: string,
-): Promise<{ welderId: string; organizationId: string } | null> {
+  opts: { evenIfLeft?: boolean } = {},
+): Promise<{ welderId: string; organizationId: string; live: boolean } | null> {
   if (!/^[A-Za-z0-9_-]{43}$/.test(token)) return null;
-  const rows: { welderId: string; organizationId: string }[] = await db.query(
-    `SELECT welder_id AS "welderId", organization_id AS "organizationId" FROM verify_tokens
-      WHERE token_hash = $1 AND revoked_at IS NULL`,
-    [hashToken(token)],
+  const rows: { welderId: string; organizationId: string; live: boolean }[] = await db.query(
+    `SELECT t.welder_id AS "welderId", t.organization_id AS "organizationId", t.revoked_at IS NULL AS live
+       FROM verify_tokens t JOIN welders w ON w.id = t.welder_id
+      WHERE t.token_hash = $1
+        AND (t.revoked_at IS NULL
+             OR ($2 AND NOT w.active AND w.left_at IS NOT NULL AND t.revoked_at >= w.left_at))`,
+    [hashToken(token), opts.evenIfLeft ?? false],
   );
   return rows[0] ?? null;
+}
+
+/** A welder who leaves the company takes no live card with them: their token is revoked (in the caller's transaction). */
+export async function revokeTokenOnLeaving(db: EntityManager, welderId: string, at: Date): Promise<boolean> {
+  const [row] = await db.query<{ n: number }[]>(
+    `WITH u AS (UPDATE verify_tokens SET revoked_at = $2 WHERE welder_id = $1 AND revoked_at IS NULL RETURNING id)
+     SELECT count(*)::int AS n FROM u`,
+    [welderId, at],
+  );
+  return (row?.n ?? 0) > 0;
 }

@@ -3,24 +3,42 @@
 import type { VerifyView } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
-import { isoDay } from '../lib/dates.js';
+import { todayIn } from '../lib/dates.js';
+import { companyTimeZone } from '../settings/settings.repository.js';
 import { rangeSummary, welderQualificationsToday } from '../qualifications/qualifications.service.js';
 import { resolveVerifyToken } from './verify-tokens.service.js';
 
 export const verifyNotice = (company: string) =>
   `This page shows what ${company} has on record today. The code edition in force, ${company}'s quality manual and the responsible inspector govern; ask them before relying on it for a particular joint.`;
 
+export const leftNotice = (company: string) =>
+  `This welder is no longer with ${company}. ${company} no longer vouches for any qualification on this card; ask the welder's current employer.`;
+
 export async function verifyView(deps: AppDeps, token: string): Promise<VerifyView> {
   const db = deps.dataSource.manager;
-  const found = await resolveVerifyToken(db, token);
+  const found = await resolveVerifyToken(db, token, { evenIfLeft: true });
   if (!found) throw new AppError('not_found', 'This card is no longer valid');
-  const rows: { name: string; stamp: string; company: string }[] = await db.query(
-    `SELECT w.name, w.stamp, o.name AS company FROM welders w JOIN organizations o ON o.id = w.organization_id
-      WHERE w.id = $1`,
-    [found.welderId],
-  );
+  const rows: { name: string; stamp: string; company: string; active: boolean; leftAt: Date | null }[] =
+    await db.query(
+      `SELECT w.name, w.stamp, o.name AS company, w.active, w.left_at AS "leftAt"
+         FROM welders w JOIN organizations o ON o.id = w.organization_id
+        WHERE w.id = $1`,
+      [found.welderId],
+    );
   const welder = rows[0];
   if (!welder) throw new AppError('not_found', 'This card is no longer valid');
+  const timeZone = await companyTimeZone(db, found.organizationId);
+  const asOf = todayIn(timeZone, deps.clock);
+  if (!welder.active)
+    return {
+      welder: { name: welder.name, stamp: welder.stamp },
+      company: welder.company,
+      asOf,
+      leftOn: welder.leftAt ? todayIn(timeZone, welder.leftAt) : asOf,
+      qualifications: [],
+      notice: leftNotice(welder.company),
+    };
+  if (!found.live) throw new AppError('not_found', 'This card is no longer valid');
   // Read as the company would: the token stands in for a signed-in reader of this one welder.
   const list = await welderQualificationsToday(
     deps,
@@ -30,7 +48,8 @@ export async function verifyView(deps: AppDeps, token: string): Promise<VerifyVi
   return {
     welder: { name: welder.name, stamp: welder.stamp },
     company: welder.company,
-    asOf: isoDay(deps.clock.now()),
+    asOf,
+    leftOn: null,
     qualifications: list.map(({ row, status }) => ({
       code: row.code as VerifyView['qualifications'][number]['code'],
       process: row.process as VerifyView['qualifications'][number]['process'],

@@ -9,7 +9,8 @@ import { diff, recordAudit } from '../lib/audit.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
 import { companyShops } from '../shops/shops.service.js';
 import * as repo from './welders.repository.js';
-import { isoDay } from '../lib/dates.js';
+import { companyToday } from '../settings/settings.repository.js';
+import { revokeTokenOnLeaving } from '../verify/verify-tokens.service.js';
 import type { EntityManager } from 'typeorm';
 
 type WelderInput = z.output<typeof welderInput>;
@@ -19,17 +20,17 @@ const stampTaken = (stamp: string, by: string) =>
   AppError.validation({ stamp: `Stamp ${stamp} is already used by ${by}` });
 
 /** Today: what each qualification's state in a list is decided by (with the company's lead time, read in the query). */
-function statusAsOf(deps: AppDeps): repo.StatusAsOf {
-  return { asOf: isoDay(deps.clock.now()) };
+async function statusAsOf(deps: AppDeps, actor: Actor): Promise<repo.StatusAsOf> {
+  return { asOf: await companyToday(deps.dataSource.manager, actor.organizationId, deps.clock) };
 }
 
 export async function listWelders(deps: AppDeps, actor: Actor, query: ListQuery): Promise<WelderPage> {
-  const { items, total } = await repo.listWelders(deps.dataSource.manager, actor, query, statusAsOf(deps));
+  const { items, total } = await repo.listWelders(deps.dataSource.manager, actor, query, await statusAsOf(deps, actor));
   return { items, total, page: query.page, pageSize: query.pageSize };
 }
 
 export async function getWelder(deps: AppDeps, actor: Actor, id: string): Promise<Welder> {
-  const welder = isUuid(id) ? await repo.findWelder(deps.dataSource.manager, actor, id, statusAsOf(deps)) : null;
+  const welder = isUuid(id) ? await repo.findWelder(deps.dataSource.manager, actor, id, await statusAsOf(deps, actor)) : null;
   if (!welder) throw AppError.notFound('welder');
   return welder;
 }
@@ -109,6 +110,8 @@ export async function updateWelder(
       const leftAt = changes.changed.includes('active') ? { leftAt: after.active ? null : now } : {};
       const applied = await repo.updateWelder(db, id, current.version, { ...changes.after, ...leftAt }, now);
       if (!applied) throw AppError.conflict(STALE);
+      // A welder who leaves takes no live card along: the verify link now says "no longer with the company".
+      if (changes.changed.includes('active') && !after.active) await revokeTokenOnLeaving(db, id, now);
       await recordAudit(db, actor, now, {
         action: changes.changed.includes('homeShopId') ? 'welder.moved' : 'welder.updated',
         entityType: 'welder',

@@ -29,6 +29,21 @@ export const lapseWatchTimeSchema = z
   .string({ error: 'Enter a time' })
   .regex(/^([01]\d|2[0-3]):[0-5]\d$/, 'Use a 24-hour time written HH:MM, e.g. 06:00');
 
+/** True when the runtime knows `zone` as an IANA time zone name (e.g. America/Chicago). */
+export function isTimeZoneName(zone: string): boolean {
+  if (zone.length === 0 || zone.length > 64) return false;
+  try {
+    new Intl.DateTimeFormat('en', { timeZone: zone });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+export const timeZoneSchema = z
+  .string({ error: 'Choose a time zone' })
+  .refine(isTimeZoneName, { error: 'Choose a time zone from the list, e.g. America/Chicago' });
+
 export const companySettingsInput = z
   .object({
     warnDays: warnDaysSchema,
@@ -38,6 +53,8 @@ export const companySettingsInput = z
       .min(1, 'At least 1 month')
       .max(12, 'At most 12 months'),
     lapseWatchTime: lapseWatchTimeSchema,
+    /** null: follow the server's time zone. */
+    timeZone: timeZoneSchema.nullable(),
   })
   .partial()
   .strict();
@@ -48,8 +65,15 @@ export const companySettingsSchema = z.object({
   warnDays: z.array(z.number().int()),
   /** Months after which a continuity-log month is closed to foremen. */
   closedMonthAfter: z.number().int(),
-  /** Daily time of the lapse-watch run, HH:MM in the server's time zone. */
+  /** Daily time of the lapse-watch run, HH:MM in the company's time zone. */
   lapseWatchTime: z.string(),
+  /** The company's time zone: its "today", day counts and the daily run's time are read in it. */
+  timeZone: z.string(),
+  /** True while the company follows the server's zone (no zone chosen in Settings). */
+  timeZoneIsServerDefault: z.boolean(),
+  serverTimeZone: z.string(),
+  /** Today's date in the company's time zone. */
+  today: z.string(),
   /** null while the company still runs on the defaults. */
   updatedAt: z.string().nullable(),
 });
@@ -58,15 +82,17 @@ export type CompanySettings = z.infer<typeof companySettingsSchema>;
 // ---- lapse watch ------------------------------------------------------------------------------------
 
 export const lapseWatchTriggers = ['schedule', 'manual', 'cli'] as const;
-export const lapseWatchRunStatuses = ['done', 'skipped', 'failed'] as const;
-export const deliveryStatuses = ['pending', 'sent', 'failed'] as const;
+/** 'sending': notices written, deliveries not all settled yet; 'done' once every one is sent, dropped or given up. */
+export const lapseWatchRunStatuses = ['sending', 'done', 'skipped', 'failed'] as const;
+export const deliveryStatuses = ['pending', 'sent', 'failed', 'superseded'] as const;
 
 export const lapseWatchPreviewQuery = z.object({ asOf: isoDateSchema.optional() }).strict();
+/** A run is always dated today in the company's time zone; `asOf`, if given, must be that day. */
 export const lapseWatchRunInput = z.object({ asOf: isoDateSchema.optional() }).strict();
 export type LapseWatchRunInput = z.infer<typeof lapseWatchRunInput>;
 export const lapseWatchNoticesQuery = z
   .object({
-    status: z.enum(deliveryStatuses, { error: 'Status must be pending, sent or failed' }).optional(),
+    status: z.enum(deliveryStatuses, { error: 'Status must be pending, sent, failed or superseded' }).optional(),
   })
   .strict();
 
@@ -77,18 +103,19 @@ export const lapseWatchRunSchema = z.object({
   startedAt: z.string(),
   finishedAt: z.string().nullable(),
   trigger: z.enum(lapseWatchTriggers),
-  instance: z.string(),
   status: z.enum(lapseWatchRunStatuses),
   noticesCreated: z.number().int(),
   emailsSent: z.number().int(),
   emailsFailed: z.number().int(),
+  /** Deliveries of the run's notices dropped before sending because they no longer applied. */
+  emailsSuperseded: z.number().int(),
   error: z.string().nullable(),
 });
 export type LapseWatchRun = z.infer<typeof lapseWatchRunSchema>;
 export const lapseWatchRunListSchema = z.object({ items: z.array(lapseWatchRunSchema) });
 
-/** 'lapsed', or a lead time in days written as text ('30', '7'). */
-export const noticeThresholdSchema = z.string().regex(/^(lapsed|\d{1,3})$/);
+/** 'lapsed', 'restored' (a lapse moved away again), or a lead time in days written as text ('30', '7'). */
+export const noticeThresholdSchema = z.string().regex(/^(lapsed|restored|\d{1,3})$/);
 
 /** What a notice is about: one qualification at one threshold of its lapse date. */
 const noticeSubject = z.object({
@@ -122,6 +149,8 @@ export const noticeDeliverySchema = z.object({
   nextAttemptAt: z.string().nullable(),
   lastError: z.string().nullable(),
   sentAt: z.string().nullable(),
+  /** Why a delivery was dropped before sending (renewed, revoked, lapse date moved, recipient no longer supervises). */
+  supersededReason: z.string().nullable(),
 });
 
 export const lapseNoticeSchema = noticeSubject.extend({

@@ -358,6 +358,8 @@ export const verifySchema = z.object({
   welder: z.object({ name: z.string(), stamp: z.string() }),
   company: z.string(),
   asOf: z.string(),
+  /** The day the welder left the company, or null while they are with it (then nothing else is vouched for). */
+  leftOn: z.string().nullable(),
   qualifications: z.array(
     z.object({
       code: codeIdSchema,

@@ -1,10 +1,11 @@
-// Settings (QA manager): when lapse warnings go out, when a continuity-log month closes to foremen and at
-// what time the daily lapse watch runs. Checked with the API's own schema; a 400 lands on its field.
+// Settings (QA manager): when lapse warnings go out, when a continuity-log month closes to foremen, at
+// what time the daily lapse watch runs and the company's time zone (its "today" everywhere). Checked
+// with the API's own schema; a 400 lands on its field.
 import { companySettingsInput, type CompanySettings } from '@beadroll/rules';
 import { useQuery } from '@tanstack/react-query';
 import { useState, type FormEvent } from 'react';
 import { Button } from '@/components/ui/button';
-import { FormError, TextField } from '@/components/ui/field';
+import { FormError, SelectField, TextField } from '@/components/ui/field';
 import { Card, PageHeader } from '@/components/ui/page-header';
 import { RequireRole } from '@/components/ui/require-role';
 import { ErrorState, LoadingState } from '@/components/ui/states';
@@ -23,13 +24,13 @@ function SettingsScreen() {
   const settings = useQuery(lapseWatchQueries.settings());
   return (
     <>
-      <PageHeader title="Settings" description="Lapse warnings, closed months and the daily lapse-watch time for the whole company." />
+      <PageHeader title="Settings" description="Lapse warnings, closed months, the daily lapse-watch time and the company's time zone." />
       {settings.isPending ? (
         <LoadingState label="Loading settings…" />
       ) : settings.isError ? (
         <ErrorState error={settings.error} onRetry={() => void settings.refetch()} />
       ) : (
-        <SettingsForm key={settings.data.updatedAt ?? 'defaults'} settings={settings.data} />
+        <SettingsForm key={`${settings.data.updatedAt ?? 'defaults'}:${settings.data.timeZone}`} settings={settings.data} />
       )}
     </>
   );
@@ -43,11 +44,19 @@ export function parseDays(text: string): number[] {
     .map((t) => (/^\d+$/.test(t) ? Number(t) : Number.NaN));
 }
 
+/** Every IANA zone the browser knows, the company's own first if the list lacks it. */
+function zoneNames(current: string): string[] {
+  const known = typeof Intl.supportedValuesOf === 'function' ? Intl.supportedValuesOf('timeZone') : [];
+  return known.includes(current) ? known : [current, ...known];
+}
+
 function SettingsForm({ settings }: { settings: CompanySettings }) {
   const update = useUpdateSettings();
   const [warnDays, setWarnDays] = useState(settings.warnDays.join(', '));
   const [closedMonthAfter, setClosedMonthAfter] = useState(String(settings.closedMonthAfter));
   const [lapseWatchTime, setLapseWatchTime] = useState(settings.lapseWatchTime);
+  // '' = follow the server's zone.
+  const [timeZone, setTimeZone] = useState(settings.timeZoneIsServerDefault ? '' : settings.timeZone);
   const [errors, setErrors] = useState<Record<string, string>>({});
 
   const submit = (e: FormEvent) => {
@@ -56,6 +65,7 @@ function SettingsForm({ settings }: { settings: CompanySettings }) {
       warnDays: parseDays(warnDays),
       closedMonthAfter: /^\d+$/.test(closedMonthAfter.trim()) ? Number(closedMonthAfter) : Number.NaN,
       lapseWatchTime,
+      timeZone: timeZone === '' ? null : timeZone,
     });
     if (!parsed.success) {
       const found: Record<string, string> = {};
@@ -94,9 +104,23 @@ function SettingsForm({ settings }: { settings: CompanySettings }) {
           error={errors.closedMonthAfter}
           inputMode="numeric"
         />
+        <SelectField
+          label="Time zone"
+          hint={`The company's today is ${settings.today} in ${settings.timeZone}. Day counts, the continuity log's current month, the verify page and the daily run all follow this zone.`}
+          value={timeZone}
+          onChange={(e) => setTimeZone(e.target.value)}
+          error={errors.timeZone}
+        >
+          <option value="">Server's time zone ({settings.serverTimeZone})</option>
+          {zoneNames(settings.timeZone).map((z) => (
+            <option key={z} value={z}>
+              {z.replaceAll('_', ' ')}
+            </option>
+          ))}
+        </SelectField>
         <TextField
           label="Daily lapse-watch time"
-          hint="24-hour time of the server, HH:MM."
+          hint="24-hour time in the company's time zone, HH:MM."
           type="time"
           value={lapseWatchTime}
           onChange={(e) => setLapseWatchTime(e.target.value)}

@@ -50,7 +50,14 @@ export default function VerifyRoute() {
               Stamp <strong className="tabular-nums">{view.data.welder.stamp}</strong> · {view.data.company}
             </p>
             <p className="mt-1 text-sm text-stone-600">Status as of {view.data.asOf}</p>
-            {view.data.qualifications.length === 0 ? (
+            {view.data.leftOn !== null ? (
+              <div role="alert" className="mt-4 rounded-md border border-red-200 bg-red-50 px-3 py-3 text-red-900">
+                <p className="font-bold">No longer with the company</p>
+                <p className="mt-1 text-sm">
+                  {view.data.welder.name} left {view.data.company} on {view.data.leftOn}. This card is not valid for work; ask the welder&apos;s current employer.
+                </p>
+              </div>
+            ) : view.data.qualifications.length === 0 ? (
               <p className="mt-4 rounded-md bg-stone-100 px-3 py-3 text-stone-800">No qualification in force is on record for this welder.</p>
             ) : (
               <ul className="mt-4 divide-y divide-stone-100">
