@@ -114,3 +114,15 @@ export const freePort = () =>
   });
 
 export const mailFolder = () => mkdtemp(path.join(tmpdir(), 'beadroll-lapse-mail-'));
+
+/** A clock the test sets to an instant and moves forward (the API's "now"). */
+export function settableClock(start = '2026-06-01T12:00:00Z') {
+  let at = new Date(start).getTime();
+  return {
+    now: () => new Date(at),
+    set: (iso: string) => void (at = new Date(iso).getTime()),
+    /** Noon UTC of the day: the same calendar day in every zone from UTC−11 to UTC+11. */
+    day: (day: string) => void (at = new Date(`${day}T12:00:00Z`).getTime()),
+    advance: (ms: number) => void (at += ms),
+  };
+}

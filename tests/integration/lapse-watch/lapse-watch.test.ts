@@ -8,6 +8,8 @@ import { pino } from 'pino';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import {
+  addDays,
+  addMonths,
   companySettingsSchema,
   lapseNoticeListSchema,
   lapseWatchPreviewSchema,
@@ -32,7 +34,9 @@ import {
 } from '../../support/api-app.js';
 import { TEST_PASSWORD } from '../../support/factories.js';
 import { mailsTo, type CaughtMail } from '../../support/mail.js';
-import { freePort, mailFolder, makeLapseWorld, makeQualification } from './lapse-factories.js';
+import { sendDueNotices } from '../../../apps/api/src/lapse-watch/lapse-sender.js';
+import { serverTimeZone, todayIn } from '../../../apps/api/src/lib/dates.js';
+import { freePort, mailFolder, makeLapseWorld, makeQualification, settableClock } from './lapse-factories.js';
 
 const AS_OF = '2026-06-01';
 const MIN = 60_000;
@@ -89,7 +93,7 @@ describe('lapse watch with the mail catcher', () => {
   let catcher: MailCatcher;
   let dir: string;
   let port: number;
-  const clock = movableClock();
+  const clock = settableClock();
   beforeAll(async () => {
     dir = await mailFolder();
     port = await freePort();
@@ -103,8 +107,19 @@ describe('lapse watch with the mail catcher', () => {
     await rm(dir, { recursive: true, force: true });
   });
 
-  const run = (orgId: string, asOf = AS_OF, deps: LapseWatchDeps = api.deps) =>
-    runLapseWatch(deps, { asOf, trigger: 'manual', organizationIds: [orgId] });
+  /** A run on `asOf` (the clock is set to that day: a run can only be dated today). */
+  const run = (orgId: string, asOf = AS_OF, deps: LapseWatchDeps = api.deps) => {
+    if (clock.now().toISOString().slice(0, 10) !== asOf) clock.day(asOf);
+    return runLapseWatch(deps, { trigger: 'manual', organizationIds: [orgId] });
+  };
+  /** One tick of the frequent sender for one company. */
+  const send = (orgId: string, deps: LapseWatchDeps = api.deps) =>
+    sendDueNotices(deps, { organizationIds: [orgId] });
+  const runRow = async (id: string) =>
+    (await api.ds.query<{ status: string; emailsSent: number; emailsFailed: number }[]>(
+      `SELECT status, emails_sent AS "emailsSent", emails_failed AS "emailsFailed" FROM lapse_watch_runs WHERE id = $1`,
+      [id],
+    ))[0]!;
 
   it('sends one digest per recipient with the right welders, and a rerun sends nothing', async () => {
     const w = await lapseScenario(api);
@@ -171,7 +186,7 @@ describe('lapse watch with the mail catcher', () => {
     expect(await mailsTo(dir, w.foremanB.email)).toHaveLength(1);
   });
 
-  it('keeps notices pending while the mail server is down, retries after the backoff, and sends each once', async () => {
+  it('defect 6: keeps notices pending while the mail server is down, retries within the day after the backoff, and the run is done only then', async () => {
     const downPort = await freePort();
     const downDir = await mailFolder();
     const base = testConfig();
@@ -179,7 +194,8 @@ describe('lapse watch with the mail catcher', () => {
     const w = await lapseScenario(api);
     try {
       const [failed] = await run(w.org.id, AS_OF, deps);
-      expect(failed).toMatchObject({ status: 'done', noticesCreated: 4, emailsSent: 0, emailsFailed: 4 });
+      // Nothing could be sent: the run is not done, it waits for its retries.
+      expect(failed).toMatchObject({ status: 'sending', noticesCreated: 4, emailsSent: 0, emailsFailed: 0 });
       const pending = await deliveryRows(api, w.org.id);
       // A-01 and A-02 (two notices) to foreman A and both QA managers; B-01 to foreman B and both QA managers.
       expect(pending).toHaveLength(12);
@@ -189,22 +205,25 @@ describe('lapse watch with the mail catcher', () => {
 
       const down = await startMailCatcher({ port: downPort, dir: downDir });
       try {
-        // Back up, but the backoff has not passed: nothing is sent yet.
-        const [early] = await run(w.org.id, AS_OF, deps);
-        expect(early).toMatchObject({ noticesCreated: 0, emailsSent: 0, emailsFailed: 0 });
+        // Back up, but the backoff has not passed: the sender sends nothing yet.
+        expect(await send(w.org.id, deps)).toMatchObject({ emailsSent: 0, emailsFailed: 0 });
         expect(await mailsTo(downDir, w.qa.email)).toHaveLength(0);
 
+        // Within the same day, 16 minutes later, the frequent sender retries — no daily run needed.
         clock.advance(16 * MIN);
-        const [retried] = await run(w.org.id, AS_OF, deps);
-        expect(retried).toMatchObject({ noticesCreated: 0, emailsSent: 4, emailsFailed: 0 });
+        expect(await send(w.org.id, deps)).toMatchObject({ emailsSent: 4, emailsFailed: 0 });
+        expect(await runRow(failed!.id)).toEqual({ status: 'done', emailsSent: 4, emailsFailed: 0 });
         clock.advance(60 * MIN);
-        const [after] = await run(w.org.id, AS_OF, deps);
-        expect(after).toMatchObject({ emailsSent: 0 });
+        expect(await send(w.org.id, deps)).toMatchObject({ emailsSent: 0 });
         for (const u of [w.foreman, w.foremanB, w.qa, w.qa2])
           expect(await mailsTo(downDir, u.email)).toHaveLength(1);
         expect(stampsIn((await mailsTo(downDir, w.qa.email))[0]!)).toEqual(['A-01', 'A-02', 'B-01']);
-        const sent = await deliveryRows(api, w.org.id);
-        expect(sent.every((d) => d.status === 'sent' && d.attempts === 2)).toBe(true);
+        const sent = await api.ds.query<{ status: string; attempts: number; messageId: string | null }[]>(
+          `SELECT d.status, d.attempts, d.message_id AS "messageId"
+             FROM notice_deliveries d JOIN lapse_notices n ON n.id = d.notice_id WHERE n.organization_id = $1`,
+          [w.org.id],
+        );
+        expect(sent.every((d) => d.status === 'sent' && d.attempts === 2 && /^<.+@.+>$/.test(d.messageId ?? ''))).toBe(true);
       } finally {
         await down.close();
       }
@@ -226,25 +245,27 @@ describe('lapse watch with the mail catcher', () => {
     });
     try {
       const backoffs: number[] = [];
+      clock.day(AS_OF);
+      const [r] = await run(w.org.id, AS_OF, deps);
       for (let attempt = 1; attempt <= 5; attempt++) {
         const before = clock.now().getTime();
-        const [r] = await run(w.org.id, AS_OF, deps);
-        expect(r).toMatchObject({ emailsSent: 0, emailsFailed: 3 });
+        if (attempt > 1) expect(await send(w.org.id, deps)).toMatchObject({ emailsSent: 0, emailsFailed: 3 });
+        expect(await runRow(r!.id)).toMatchObject({ status: attempt < 5 ? 'sending' : 'done' });
         const rows = await deliveryRows(api, w.org.id);
         expect(rows.every((d) => d.attempts === attempt)).toBe(true);
         if (attempt < 5) backoffs.push(Math.round((rows[0]!.nextAttemptAt!.getTime() - before) / MIN));
-        clock.advance(25 * 60 * MIN);
+        clock.advance(5 * 60 * MIN);
       }
       expect(backoffs).toEqual([15, 30, 60, 120]);
       const rows = await deliveryRows(api, w.org.id);
       expect(rows.map((d) => d.status)).toEqual(['failed', 'failed', 'failed']);
-      const [sixth] = await run(w.org.id, AS_OF, deps);
-      expect(sixth).toMatchObject({ emailsSent: 0, emailsFailed: 0 });
+      expect(await runRow(r!.id)).toEqual({ status: 'done', emailsSent: 0, emailsFailed: 3 });
+      expect(await send(w.org.id, deps)).toMatchObject({ emailsSent: 0, emailsFailed: 0 });
 
       const qa = await signIn(api.app, w.qa.email, TEST_PASSWORD);
       const overview = bodyOf(overviewSchema, await qa.get('/api/overview'));
       expect(overview.failedDeliveries).toBe(3);
-      expect(overview.latestRun).toMatchObject({ id: sixth!.id, status: 'done' });
+      expect(overview.latestRun).toMatchObject({ id: r!.id, status: 'done', emailsFailed: 3 });
       const failed = bodyOf(lapseNoticeListSchema, await qa.get('/api/lapse-watch/notices?status=failed'));
       expect(failed.items).toHaveLength(1);
       expect(failed.items[0]!.deliveries.map((d) => [d.status, d.attempts])).toEqual([
@@ -284,6 +305,7 @@ describe('lapse watch with the mail catcher', () => {
       }),
     );
     try {
+      clock.day(AS_OF);
       const results = await Promise.all(
         instances.map((i) =>
           runLapseWatch(i.deps, {
@@ -300,7 +322,7 @@ describe('lapse watch with the mail catcher', () => {
       const skipped = runs.find((r) => r.status === 'skipped')!;
       expect(done).toMatchObject({ noticesCreated: 4, emailsSent: 4 });
       expect(skipped).toMatchObject({ organizationId: w.org.id, noticesCreated: 0, emailsSent: 0 });
-      expect(skipped.instance).not.toBe(done.instance);
+      expect(skipped).not.toHaveProperty('instance');
       expect(logLines.join('')).toContain('lapse watch skipped: another instance holds the lock');
       for (const u of [w.foreman, w.foremanB, w.qa, w.qa2])
         expect(await mailsTo(dir, u.email)).toHaveLength(1);
@@ -344,6 +366,7 @@ describe('lapse watch with the mail catcher', () => {
     for (const u of [w.foreman, w.foremanB, w.qa, w.qa2]) expect(await mailsTo(dir, u.email)).toHaveLength(0);
 
     // "Run now" through the API sends it; a preview afterwards has nothing left to send.
+    clock.day(AS_OF);
     const runRes = await qa.post('/api/lapse-watch/runs').send({ asOf: AS_OF });
     expect(runRes.status).toBe(201);
     const manual = bodyOf(lapseWatchRunSchema, runRes);
@@ -353,7 +376,7 @@ describe('lapse watch with the mail catcher', () => {
     ).toEqual([]);
     const history = bodyOf(lapseWatchRunListSchema, await qa.get('/api/lapse-watch/runs'));
     expect(history.items[0]).toMatchObject({ id: manual.id, emailsSent: 4 });
-    expect(history.items.every((r) => r.organizationId === w.org.id || r.organizationId === null)).toBe(true);
+    expect(history.items.every((r) => r.organizationId === w.org.id)).toBe(true);
     const notices = bodyOf(lapseNoticeListSchema, await qa.get('/api/lapse-watch/notices'));
     expect(notices.items).toHaveLength(4);
     const b1 = notices.items.find((n) => n.welder.stamp === 'B-01')!;
@@ -392,7 +415,7 @@ describe('lapse watch with the mail catcher', () => {
     expect(await runDueLapseWatch(api.deps, at(1, 5, 59), among)).toEqual([]);
     const due = await runDueLapseWatch(api.deps, at(1, 6, 0), among);
     expect(due.map((r) => [r.organizationId, r.trigger, r.status, r.asOf])).toEqual([
-      [w.org.id, 'schedule', 'done', at(1, 6, 0).toISOString().slice(0, 10)],
+      [w.org.id, 'schedule', 'done', '2026-06-01'],
     ]);
     expect(await mailsTo(dir, w.qa.email)).toHaveLength(1);
     // Later the same day nothing is due; the late company's time comes at 23:00; the next morning again.
@@ -438,6 +461,10 @@ describe('/api/settings and the roles of lapse watch', () => {
       warnDays: [30, 7],
       closedMonthAfter: 2,
       lapseWatchTime: '06:00',
+      timeZone: Intl.DateTimeFormat().resolvedOptions().timeZone,
+      timeZoneIsServerDefault: true,
+      serverTimeZone: Intl.DateTimeFormat().resolvedOptions().timeZone,
+      today: expect.stringMatching(/^\d{4}-\d{2}-\d{2}$/),
       updatedAt: null,
     });
     const saved = await qa.patch('/api/settings').send({ warnDays: [7, 45], lapseWatchTime: '05:30' });
@@ -535,43 +562,44 @@ describe('npm run lapse-watch', () => {
     await rm(dir, { recursive: true, force: true });
   });
 
-  it('runs once for the given date, sends the digests and exits 0', { timeout: 60_000 }, async () => {
-    const w = await lapseScenario(api);
-    const out: string[] = [];
-    const code = await new Promise<number | null>((resolve, reject) => {
-      const child = spawn('npm', ['run', '--silent', 'lapse-watch', '--', '--as-of', AS_OF], {
+  const cli = (args: string[], env: Record<string, string> = {}) =>
+    new Promise<{ code: number | null; out: string }>((resolve, reject) => {
+      const out: string[] = [];
+      const child = spawn('npm', ['run', '--silent', 'lapse-watch', '--', ...args], {
         cwd: repoRoot,
-        env: { ...process.env, NODE_ENV: 'test', SMTP_PORT: String(port), LOG_LEVEL: 'silent' },
+        env: { ...process.env, NODE_ENV: 'test', SMTP_PORT: String(port), LOG_LEVEL: 'silent', ...env },
         stdio: ['ignore', 'pipe', 'pipe'],
       });
       child.stdout.on('data', (c: Buffer) => out.push(c.toString()));
       child.stderr.on('data', (c: Buffer) => out.push(c.toString()));
       child.once('error', reject);
-      child.once('exit', resolve);
+      child.once('exit', (code) => resolve({ code, out: out.join('') }));
     });
-    expect(code, out.join('')).toBe(0);
-    expect(out.join('')).toContain(
-      `lapse watch ${AS_OF} done company ${w.org.id}: 4 notices, 4 e-mails sent, 0 failed`,
-    );
-    const [cliRun] = await api.ds.query<{ trigger: string; status: string }[]>(
-      `SELECT trigger, status FROM lapse_watch_runs WHERE organization_id = $1`,
+
+  it('runs once for today, sends the digests and exits 0', { timeout: 60_000 }, async () => {
+    const w = await makeLapseWorld(api.ds);
+    const today = todayIn(serverTimeZone(), new Date());
+    await makeQualification(api.ds, w.org, w.qa, w.weldersA[0]!, {
+      lapsesOn: addDays(today, 5),
+      lastEvidence: addMonths(addDays(today, 5), -6),
+    });
+    const { code, out } = await cli([]);
+    expect(code, out).toBe(0);
+    expect(out).toContain(`lapse watch ${today} done company ${w.org.id}: 2 notices, 3 e-mails sent, 0 failed`);
+    const [cliRun] = await api.ds.query<{ trigger: string; status: string; asOf: string }[]>(
+      `SELECT trigger, status, to_char(as_of, 'YYYY-MM-DD') AS "asOf" FROM lapse_watch_runs WHERE organization_id = $1`,
       [w.org.id],
     );
-    expect(cliRun).toEqual({ trigger: 'cli', status: 'done' });
+    expect(cliRun).toEqual({ trigger: 'cli', status: 'done', asOf: today });
     const [mail] = await mailsTo(dir, w.qa.email);
-    expect(stampsIn(mail!)).toEqual(['A-01', 'A-02', 'B-01']);
+    expect(stampsIn(mail!)).toEqual(['A-01']);
   });
 
-  it('refuses a date that is not YYYY-MM-DD', { timeout: 30_000 }, async () => {
-    const code = await new Promise<number | null>((resolve, reject) => {
-      const child = spawn('npm', ['run', '--silent', 'lapse-watch', '--', '--as-of', '2026-13-01'], {
-        cwd: repoRoot,
-        env: { ...process.env, NODE_ENV: 'test', LOG_LEVEL: 'silent' },
-        stdio: 'ignore',
-      });
-      child.once('error', reject);
-      child.once('exit', resolve);
-    });
-    expect(code).toBe(2);
+  it('defect 5: refuses a run dated any other day than today, and a date that is not YYYY-MM-DD', { timeout: 60_000 }, async () => {
+    const today = todayIn(serverTimeZone(), new Date());
+    const { code, out } = await cli(['--as-of', addDays(today, 30)]);
+    expect(code, out).toBe(2);
+    expect(out).toContain(`A run can only be dated today: ${today}`);
+    expect((await cli(['--as-of', '2026-13-01'])).code).toBe(2);
   });
 });

@@ -1,6 +1,7 @@
 // The continuity log (foreman, monthly): the grid of a shop and month, its one-transaction save with the
 // continuity state of every touched pair refreshed and each change audited; the review queue of use
 // logged while lapsed; and a welder's continuity timeline per process.
+import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import { addMonths, daysBetween, processes, type Process } from '@beadroll/rules';
 import type { EntityManager } from 'typeorm';
 import type { AppDeps } from '../lib/context.js';
@@ -147,7 +148,7 @@ export async function saveGrid(deps: AppDeps, actor: Actor, input: GridSaveInput
     const scope = { organizationId: actor.organizationId, shopId: input.shopId, month };
     const written = await repo.upsertCells(db, { ...scope, loggedBy: actor.id, at: now }, input.cells);
     const removed = await repo.removeCells(db, scope, input.remove);
-    await refreshContinuityPairs(db, keys);
+    await recordLapseMoves(db, await refreshContinuityPairs(db, keys), deps.clock);
     const view = ({ id: _id, welderId: _w, version: _v, ...rest }: repo.EntrySnapshot) => rest;
     // Every change of the save audited, in one statement.
     await repo.insertEntryAudits(db, actor, now, [

@@ -1,5 +1,6 @@
 // Coupons: recording a welder's qualification test, its examination and the server's verdict; editing it
 // until it is certified. One transaction per write, with its audit event.
+import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import {
@@ -148,7 +149,7 @@ export async function createCoupon(deps: AppDeps, actor: Actor, input: CreateInp
     });
     await repo.replaceCouponUploads(db, couponId, uploadIds);
     // A passing coupon is continuity evidence for its process on its date (every code the welder holds).
-    await refreshContinuityStates(db, welderId, write.process);
+    await recordLapseMoves(db, await refreshContinuityStates(db, welderId, write.process), deps.clock);
     await recordAudit(db, actor, now, {
       action: 'coupon.created',
       entityType: 'coupon',
@@ -180,8 +181,9 @@ export async function updateCoupon(
     const now = deps.clock.now();
     if (!(await repo.updateCoupon(db, id, current.version, write, now))) throw AppError.conflict(STALE);
     await repo.replaceCouponUploads(db, id, uploadIds);
-    await refreshContinuityStates(db, current.welderId, write.process);
-    if (current.process !== write.process) await refreshContinuityStates(db, current.welderId, current.process);
+    await recordLapseMoves(db, await refreshContinuityStates(db, current.welderId, write.process), deps.clock);
+    if (current.process !== write.process)
+      await recordLapseMoves(db, await refreshContinuityStates(db, current.welderId, current.process), deps.clock);
     await recordAudit(db, actor, now, {
       action: 'coupon.updated',
       entityType: 'coupon',

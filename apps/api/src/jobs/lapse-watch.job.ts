@@ -34,6 +34,8 @@ export interface LapseWatchOptions {
   instance?: string;
   /** Stops a run between companies (shutdown); companies not reached wait for the next run. */
   signal?: AbortSignal;
+  /** The instant of the run (the schedule's tick); default the clock's now. */
+  at?: Date;
 }
 
 const instanceName = () => `${hostname()}:${process.pid}`;
@@ -59,7 +61,7 @@ async function companyDays(deps: LapseWatchDeps, opts: LapseWatchOptions, at: Da
 }
 
 export async function runLapseWatch(deps: LapseWatchDeps, opts: LapseWatchOptions): Promise<LapseWatchRun[]> {
-  const startedAt = deps.clock.now();
+  const startedAt = opts.at ?? deps.clock.now();
   const instance = opts.instance ?? instanceName();
   const companies = await companyDays(deps, opts, startedAt);
   const lockHolder = deps.dataSource.createQueryRunner();
@@ -161,7 +163,7 @@ export async function runDueLapseWatch(
   const done = await repo.scheduledRunDays(db, timeHas);
   const due = timeHas.filter((d) => !done.has(d.organizationId)).map((d) => d.organizationId);
   return due.length > 0
-    ? runLapseWatch(deps, { trigger: 'schedule', organizationIds: due, ...(signal ? { signal } : {}) })
+    ? runLapseWatch(deps, { trigger: 'schedule', organizationIds: due, at: now, ...(signal ? { signal } : {}) })
     : [];
 }
 

@@ -14,6 +14,7 @@
 //   - otherwise nothing (nobody was told anything that is now wrong).
 // Notices are unique per (qualification, threshold, lapses_on), so a move and a run never both write one.
 import type { EntityManager } from 'typeorm';
+import type { LapseMove } from '../continuity/continuity-state.repository.js';
 import { daysBetween } from '@beadroll/rules';
 import type { Clock } from '../lib/context.js';
 import { todayIn } from '../lib/dates.js';
@@ -21,15 +22,7 @@ import { settingsOfCompanies } from '../settings/settings.repository.js';
 import * as repo from './lapse-watch.repository.js';
 
 /** One pair whose lapses_on a refresh changed (before/after: YYYY-MM-DD, null when there was/is no state). */
-export interface LapseMove {
-  organizationId: string;
-  welderId: string;
-  process: string;
-  code: string;
-  qualificationId?: string;
-  before: string | null;
-  after: string | null;
-}
+export type { LapseMove };
 
 /** The thresholds a lapse date stands at on `today` (see the header). */
 export function bandsOf(lapsesOn: string | null, today: string, warnDays: number[]): string[] {

@@ -1,5 +1,6 @@
 // Certified qualifications (WPQs): certifying a passing coupon with the ranges it qualifies, revoking,
 // superseding, their continuity status, and the WPQ record and wallet card PDFs.
+import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import {
@@ -183,7 +184,8 @@ export async function certifyCoupon(
           supersedesId: supersedes?.id ?? null,
         },
       });
-      await refreshContinuityState(db, coupon.welderId, coupon.process, coupon.code);
+      const moves = await refreshContinuityState(db, coupon.welderId, coupon.process, coupon.code);
+      await recordLapseMoves(db, moves, deps.clock);
       if (supersedes) {
         await repo.markSuperseded(db, supersedes.id, qualificationId, now);
         await recordAudit(db, actor, now, {
@@ -227,7 +229,7 @@ export async function revokeQualification(
       by: actor.id,
       at: now,
     });
-    await refreshContinuityState(db, q.welderId, q.process, q.code);
+    await recordLapseMoves(db, await refreshContinuityState(db, q.welderId, q.process, q.code), deps.clock);
     await recordAudit(db, actor, now, {
       action: 'qualification.revoked',
       entityType: 'qualification',

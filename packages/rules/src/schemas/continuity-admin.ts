@@ -98,7 +98,7 @@ export const lapseWatchNoticesQuery = z
 
 export const lapseWatchRunSchema = z.object({
   id: z.string(),
-  organizationId: z.string().nullable(),
+  organizationId: z.string(),
   asOf: z.string(),
   startedAt: z.string(),
   finishedAt: z.string().nullable(),

@@ -1,5 +1,6 @@
-// Lapse watch (QA manager): what the daily job would send for a chosen date (nothing is sent), running
-// it now after confirming, the history of runs and the notices with each delivery's state.
+// Lapse watch (QA manager): what the daily job would send on any chosen day, ahead or back (a preview
+// writes and sends nothing), running it for today — the company's today, the only day a run can have —
+// after confirming, the history of runs and the notices with each delivery's state.
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
@@ -15,12 +16,25 @@ import { triggerWords } from '@/features/lapse-watch/components/run-summary';
 import { daysText } from '@/components/ui/qualification-chip';
 import { errorMessage } from '@/lib/api-client';
 
-const today = () => new Date().toISOString().slice(0, 10);
-const thresholdWords = (t: string) => (t === 'lapsed' ? 'Lapsed' : `${t}-day warning`);
-const deliveryTone = { sent: 'text-emerald-800', pending: 'text-amber-800', failed: 'text-red-800' } as const;
-const deliveryWords = { sent: '✓ sent', pending: '… pending', failed: '✕ failed' } as const;
+const thresholdWords = (t: string) =>
+  t === 'lapsed' ? 'Lapsed' : t === 'restored' ? 'Back in continuity' : `${t}-day warning`;
+const deliveryTone = {
+  sent: 'text-emerald-800',
+  pending: 'text-amber-800',
+  failed: 'text-red-800',
+  superseded: 'text-stone-600',
+} as const;
+const deliveryWords = { sent: '✓ sent', pending: '… pending', failed: '✕ failed', superseded: '– not sent, no longer applied' } as const;
+const runStatusWords = (r: { status: string; error: string | null }) =>
+  r.status === 'done'
+    ? 'Done'
+    : r.status === 'sending'
+      ? 'Sending (retries pending)'
+      : r.status === 'skipped'
+        ? 'Skipped (another server ran it)'
+        : `Failed${r.error ? `: ${r.error}` : ''}`;
 
-export default function LapseWatchRoute() {
+function LapseWatchRoute() {
   return (
     <RequireRole roles={['qa_manager']} title="Lapse watch" message="Lapse watch is run by the QA manager.">
       <LapseWatchScreen />
@@ -28,14 +42,23 @@ export default function LapseWatchRoute() {
   );
 }
 
+export default LapseWatchRoute;
+
 function LapseWatchScreen() {
-  const [asOf, setAsOf] = useState(today());
+  const settings = useQuery(lapseWatchQueries.settings());
+  if (settings.isPending) return <LoadingState label="Loading lapse watch…" />;
+  if (settings.isError) return <ErrorState error={settings.error} onRetry={() => void settings.refetch()} />;
+  return <LapseWatchPanels today={settings.data.today} timeZone={settings.data.timeZone} />;
+}
+
+function LapseWatchPanels({ today, timeZone }: { today: string; timeZone: string }) {
+  const [asOf, setAsOf] = useState(today);
   const [previewFor, setPreviewFor] = useState<string | null>(null);
   const [confirming, setConfirming] = useState(false);
   const run = useRunLapseWatch();
   const preview = useQuery({ ...lapseWatchQueries.preview(previewFor ?? ''), enabled: previewFor !== null });
   const runs = useQuery(lapseWatchQueries.runs());
-  const [status, setStatus] = useState<'' | 'pending' | 'sent' | 'failed'>('');
+  const [status, setStatus] = useState<'' | 'pending' | 'sent' | 'failed' | 'superseded'>('');
   const notices = useQuery(lapseWatchQueries.notices(status || undefined));
 
   return (
@@ -45,14 +68,26 @@ function LapseWatchScreen() {
         description="Every day Beadroll warns each shop's foremen and the QA managers of qualifications about to lapse. Preview what a run would send, or run it now."
       />
       <Card className="mb-5 p-4">
-        <div className="flex flex-wrap items-end gap-3">
-          <TextField label="As of" type="date" wrapperClassName="w-48" value={asOf} onChange={(e) => setAsOf(e.target.value)} />
-          <Button onClick={() => setPreviewFor(asOf)} disabled={!asOf}>
-            Preview
-          </Button>
-          <Button variant="primary" onClick={() => setConfirming(true)} disabled={!asOf}>
-            Run now
-          </Button>
+        <div className="flex flex-wrap items-end justify-between gap-3">
+          <div className="flex flex-wrap items-end gap-3">
+            <TextField
+              label="Preview as of"
+              hint="Any day, ahead or back; a preview sends and writes nothing."
+              type="date"
+              wrapperClassName="w-56"
+              value={asOf}
+              onChange={(e) => setAsOf(e.target.value)}
+            />
+            <Button onClick={() => setPreviewFor(asOf)} disabled={!asOf}>
+              Preview
+            </Button>
+          </div>
+          <div className="text-right">
+            <Button variant="primary" onClick={() => setConfirming(true)}>
+              Run for today ({today})
+            </Button>
+            <p className="mt-1 text-xs text-stone-600">Today in {timeZone.replaceAll('_', ' ')}, the company&apos;s time zone.</p>
+          </div>
         </div>
         {previewFor !== null && (
           <div className="mt-4">
@@ -136,7 +171,7 @@ function LapseWatchScreen() {
                     <td className="px-3 py-2 tabular-nums">{new Date(r.startedAt).toLocaleString()}</td>
                     <td className="px-3 py-2 tabular-nums">{r.asOf}</td>
                     <td className="px-3 py-2">{triggerWords[r.trigger]}</td>
-                    <td className="px-3 py-2">{r.status === 'done' ? 'Done' : r.status === 'skipped' ? 'Skipped' : `Failed${r.error ? `: ${r.error}` : ''}`}</td>
+                    <td className="px-3 py-2">{runStatusWords(r)}</td>
                     <td className="px-3 py-2 text-right tabular-nums">{r.noticesCreated}</td>
                     <td className="px-3 py-2 text-right tabular-nums">{r.emailsSent}</td>
                     <td className="px-3 py-2 text-right tabular-nums">{r.emailsFailed}</td>
@@ -156,6 +191,7 @@ function LapseWatchScreen() {
             <option value="pending">Pending</option>
             <option value="sent">Sent</option>
             <option value="failed">Failed</option>
+            <option value="superseded">No longer applied</option>
           </SelectField>
         </div>
         {notices.isPending ? (
@@ -190,8 +226,9 @@ function LapseWatchScreen() {
                     <td className="px-3 py-2">
                       <ul>
                         {n.deliveries.map((d) => (
-                          <li key={d.userId} className={deliveryTone[d.status]} title={d.lastError ?? undefined}>
+                          <li key={d.userId} className={deliveryTone[d.status]} title={d.lastError ?? d.supersededReason ?? undefined}>
                             {deliveryWords[d.status]} · {d.name} &lt;{d.email}&gt;
+                            {d.supersededReason ? ` · ${d.supersededReason}` : ''}
                             {d.attempts > 1 ? ` · ${d.attempts} tries` : ''}
                           </li>
                         ))}
@@ -208,7 +245,7 @@ function LapseWatchScreen() {
       <ConfirmDialog
         open={confirming}
         tone="primary"
-        title={`Run lapse watch for ${asOf}?`}
+        title={`Run lapse watch for today, ${today}?`}
         confirmLabel="Run and send"
         busy={run.isPending}
         error={run.error ? errorMessage(run.error) : undefined}
@@ -217,7 +254,7 @@ function LapseWatchScreen() {
           run.reset();
         }}
         onConfirm={() =>
-          run.mutate(asOf, {
+          run.mutate(today, {
             onSuccess: () => setConfirming(false),
           })
         }

@@ -21,7 +21,7 @@ export const lapseWatchQueries = {
       queryKey: [...lapseWatchQueries.all(), 'runs'] as const,
       queryFn: async ({ signal }) => (await apiRequest('/api/lapse-watch/runs', lapseWatchRunListSchema, { signal })).items,
     }),
-  notices: (status?: 'pending' | 'sent' | 'failed') =>
+  notices: (status?: 'pending' | 'sent' | 'failed' | 'superseded') =>
     queryOptions({
       queryKey: [...lapseWatchQueries.all(), 'notices', status ?? 'all'] as const,
       queryFn: async ({ signal }) => (await apiRequest('/api/lapse-watch/notices', lapseNoticeListSchema, { query: { status }, signal })).items,
@@ -33,7 +33,7 @@ export const lapseWatchQueries = {
     }),
 };
 
-/** "Run now": the job runs once for the date given and sends what is due. */
+/** "Run for today": the job runs once, dated the company's today (the API refuses any other day), and sends what is due. */
 export function useRunLapseWatch() {
   const queryClient = useQueryClient();
   return useMutation({

@@ -12,10 +12,19 @@ export function RunSummary({ run }: { run: LapseWatchRun | null }) {
       <dt className="text-stone-500">Started by</dt>
       <dd>{triggerWords[run.trigger]}</dd>
       <dt className="text-stone-500">Result</dt>
-      <dd>{run.status === 'done' ? 'Done' : run.status === 'skipped' ? 'Skipped (another instance ran it)' : `Failed: ${run.error ?? ''}`}</dd>
+      <dd>
+        {run.status === 'done'
+          ? 'Done'
+          : run.status === 'sending'
+            ? 'Sending (retries pending)'
+            : run.status === 'skipped'
+              ? 'Skipped (another server ran it)'
+              : `Failed: ${run.error ?? ''}`}
+      </dd>
       <dt className="text-stone-500">Notices</dt>
       <dd>
         {run.noticesCreated} new · {run.emailsSent} e-mails sent{run.emailsFailed ? ` · ${run.emailsFailed} failed` : ''}
+        {run.emailsSuperseded ? ` · ${run.emailsSuperseded} dropped (no longer applied)` : ''}
       </dd>
     </dl>
   );
