@@ -205,7 +205,9 @@ describe('lapse watch and settings', () => {
     const { page } = qa;
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Lapse watch' }).click();
     await page.getByRole('heading', { name: 'Lapse watch' }).waitFor();
-    expect(await page.getByLabel('As of', { exact: true }).inputValue()).toBe(new Date().toISOString().slice(0, 10));
+    // The preview date starts at the company's today (its own time zone), and the run is always today.
+    const { today } = await getJson<{ today: string }>(page, '/api/settings');
+    expect(await page.getByLabel('Preview as of', { exact: true }).inputValue()).toBe(today);
 
     await page.getByRole('button', { name: 'Preview' }).click();
     const preview = page.getByRole('table', { name: 'Preview' });
@@ -215,7 +217,7 @@ describe('lapse watch and settings', () => {
     expect(await previewRow.first().textContent()).toContain('Morgan Adeyemi-Clarke');
     await page.getByText(/\(nothing sent\)/).waitFor();
 
-    await page.getByRole('button', { name: 'Run now' }).click();
+    await page.getByRole('button', { name: `Run for today (${today})` }).click();
     const dialog = page.getByRole('dialog');
     await dialog.getByText(/Run lapse watch for/).waitFor();
     const [response] = await Promise.all([

@@ -29,7 +29,8 @@ export async function loadActor(db: EntityManager, userId: string): Promise<Acto
               WHEN 'foreman' THEN ARRAY(SELECT fs.shop_id::text FROM foreman_shops fs WHERE fs.user_id = u.id ORDER BY 1)
               WHEN 'welder' THEN ARRAY(SELECT w.home_shop_id::text FROM welders w WHERE w.id = u.welder_id)
               ELSE ARRAY[]::text[]
-            END AS "shopIds"
+            END AS "shopIds",
+            (SELECT st.time_zone FROM company_settings st WHERE st.organization_id = u.organization_id) AS "timeZone"
        FROM users u
       WHERE u.id = $1 AND u.active AND u.password_hash IS NOT NULL`,
     [userId],

@@ -99,7 +99,7 @@ async function prepare(
     ? procedureProblem(procedure, input.coupon)
     : 'Choose a WPS from your company’s register';
   if (problem) fields.procedureId = problem;
-  if (input.testedOn > (await companyToday(db, actor.organizationId, deps.clock))) fields.testedOn = 'The test date cannot be in the future';
+  if (input.testedOn > (await companyToday(db, actor, deps.clock))) fields.testedOn = 'The test date cannot be in the future';
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
 
   const evaluation = evaluateCoupon(input);

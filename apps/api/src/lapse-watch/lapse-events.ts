@@ -12,10 +12,12 @@
 //   - bands(after) empty, and supervisors had been sent a notice of the old date: a 'restored' notice
 //     ("back in continuity, lapses on …");
 //   - otherwise nothing (nobody was told anything that is now wrong).
+// A pair that is new (a certification entered after the fact) reports a lapse only within the largest
+// lead time, as a first daily run would: entering history does not mail years-old lapses.
 // Notices are unique per (qualification, threshold, lapses_on), so a move and a run never both write one.
 import type { EntityManager } from 'typeorm';
 import type { LapseMove } from '../continuity/continuity-state.repository.js';
-import { daysBetween } from '@beadroll/rules';
+import { addDays, daysBetween } from '@beadroll/rules';
 import type { Clock } from '../lib/context.js';
 import { todayIn } from '../lib/dates.js';
 import { settingsOfCompanies } from '../settings/settings.repository.js';
@@ -57,9 +59,11 @@ export async function recordLapseMoves(db: EntityManager, moves: LapseMove[], cl
       list.map((m) => ({ ...m, qualificationId: m.qualificationId ?? null })),
     );
     const rows: { qualificationId: string; threshold: string; lapsesOn: string }[] = [];
+    const oldest = addDays(today, -Math.max(...s.warnDays));
     for (const q of quals) {
       const before = bandsOf(q.before, today, s.warnDays);
       const after = bandsOf(q.after, today, s.warnDays);
+      if (q.before === null && q.after <= oldest) continue;
       if (after.length > 0 && (!sameBands(before, after) || q.told))
         for (const threshold of after) rows.push({ qualificationId: q.qualificationId, threshold, lapsesOn: q.after });
       else if (after.length === 0 && q.told)

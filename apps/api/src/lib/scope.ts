@@ -13,6 +13,11 @@ export interface Actor {
   welderId: string | null;
   /** Foreman: assigned shops. Welder: the home shop. QA manager: empty (sees every shop of the company). */
   shopIds: string[];
+  /**
+   * The company's chosen time zone, loaded with the session (null: the server's zone; absent: not
+   * loaded, read it from the settings).
+   */
+  timeZone?: string | null;
   /** Set when the caller is another system presenting an API token (issue 13); absent for a person. */
   apiToken?: { id: string; access: 'read' | 'read-write' };
   /** The session the request came with (absent for callers that are not a browser session). */

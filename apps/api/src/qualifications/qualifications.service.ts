@@ -88,7 +88,7 @@ function toQualification(r: repo.QualificationRaw, asOf: string): Qualification 
 }
 
 /** Today in the company's own time zone (Settings). */
-const today = (deps: AppDeps, actor: Actor) => companyToday(deps.dataSource.manager, actor.organizationId, deps.clock);
+const today = (deps: AppDeps, actor: Actor) => companyToday(deps.dataSource.manager, actor, deps.clock);
 
 export async function listQualifications(deps: AppDeps, actor: Actor, q: ListQuery) {
   const superseded = q.state === 'all' ? undefined : q.state === 'superseded';

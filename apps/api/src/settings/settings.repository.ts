@@ -63,9 +63,17 @@ export async function companyTimeZone(db: EntityManager, organizationId: string)
   return zoneInForce(row?.zone ?? null);
 }
 
-/** Today's date for the company: the date on its own wall clock at the clock's now. */
-export async function companyToday(db: EntityManager, organizationId: string, clock: Clock): Promise<string> {
-  return todayIn(await companyTimeZone(db, organizationId), clock);
+/**
+ * Today's date for the caller's company: the date on its own wall clock at the clock's now. The zone
+ * comes with the session when it was loaded there (no query), else from the settings.
+ */
+export async function companyToday(
+  db: EntityManager,
+  who: string | { organizationId: string; timeZone?: string | null },
+  clock: Clock,
+): Promise<string> {
+  if (typeof who !== 'string' && who.timeZone !== undefined) return todayIn(zoneInForce(who.timeZone), clock);
+  return todayIn(await companyTimeZone(db, typeof who === 'string' ? who : who.organizationId), clock);
 }
 
 /** Settings of every company at once (the lapse-watch job and the schedule). */

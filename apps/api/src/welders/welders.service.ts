@@ -21,7 +21,7 @@ const stampTaken = (stamp: string, by: string) =>
 
 /** Today: what each qualification's state in a list is decided by (with the company's lead time, read in the query). */
 async function statusAsOf(deps: AppDeps, actor: Actor): Promise<repo.StatusAsOf> {
-  return { asOf: await companyToday(deps.dataSource.manager, actor.organizationId, deps.clock) };
+  return { asOf: await companyToday(deps.dataSource.manager, actor, deps.clock) };
 }
 
 export async function listWelders(deps: AppDeps, actor: Actor, query: ListQuery): Promise<WelderPage> {
