@@ -3,7 +3,7 @@
 // the verify page and the Settings page all follow the company's time zone, never the UTC date.
 import { rm } from 'node:fs/promises';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { companySettingsSchema, lapseWatchPreviewSchema, verifySchema } from '@beadroll/rules';
+import { companySettingsSchema, lapseWatchPreviewSchema, qualificationSchema, verifySchema } from '@beadroll/rules';
 import { startMailCatcher, type MailCatcher } from '../../../docker-free-scripts/mail-catcher.js';
 import { runDueLapseWatch } from '../../../apps/api/src/jobs/lapse-watch.job.js';
 import { serverTimeZone, todayIn, wallTimeIn } from '../../../apps/api/src/lib/dates.js';
@@ -101,11 +101,11 @@ describe('a company clock', () => {
     expect(saved).toMatchObject({ timeZone: 'America/Chicago', timeZoneIsServerDefault: false, serverTimeZone: 'Australia/Sydney', today: '2026-06-01' });
 
     // Still qualified on the company's day (it lapses on 06-02, the Sydney date).
-    const qual = await qa.get(`/api/qualifications/${q.id}`);
-    expect(qual.body.status.state).toBe('lapsing');
+    const qual = bodyOf(qualificationSchema, await qa.get(`/api/qualifications/${q.id}`));
+    expect(qual.status.state).toBe('lapsing');
     const issued = await qa.post(`/api/welders/${w.weldersA[1]!.id}/verify-token`);
     expect(issued.status, JSON.stringify(issued.body)).toBe(201);
-    const token = String(issued.body.url).split('/verify/')[1]!;
+    const token = (issued.body as { url: string }).url.split('/verify/')[1]!;
     const view = bodyOf(verifySchema, await qa.get(`/api/verify/${token}`));
     expect(view).toMatchObject({ asOf: '2026-06-01', leftOn: null });
     // A preview defaults to the company's day.
