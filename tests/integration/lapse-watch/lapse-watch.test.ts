@@ -576,7 +576,7 @@ describe('npm run lapse-watch', () => {
       child.once('exit', (code) => resolve({ code, out: out.join('') }));
     });
 
-  it('runs once for today, sends the digests and exits 0', { timeout: 60_000 }, async () => {
+  it('runs once for today, sends the digests and exits 0', { timeout: 180_000 }, async () => {
     const w = await makeLapseWorld(api.ds);
     const today = todayIn(serverTimeZone(), new Date());
     await makeQualification(api.ds, w.org, w.qa, w.weldersA[0]!, {
@@ -595,7 +595,7 @@ describe('npm run lapse-watch', () => {
     expect(stampsIn(mail!)).toEqual(['A-01']);
   });
 
-  it('defect 5: refuses a run dated any other day than today, and a date that is not YYYY-MM-DD', { timeout: 60_000 }, async () => {
+  it('defect 5: refuses a run dated any other day than today, and a date that is not YYYY-MM-DD', { timeout: 180_000 }, async () => {
     const today = todayIn(serverTimeZone(), new Date());
     const { code, out } = await cli(['--as-of', addDays(today, 30)]);
     expect(code, out).toBe(2);

@@ -19,7 +19,7 @@ import { wallTimeIn } from '../lib/dates.js';
 import { settingsOfCompanies } from '../settings/settings.repository.js';
 import * as repo from '../lapse-watch/lapse-watch.repository.js';
 import { writeCompanyNotices, type LapseWatchDeps } from '../lapse-watch/lapse-watch.service.js';
-import { sendDueNotices, type SendOutcome } from '../lapse-watch/lapse-sender.js';
+import { sendDueNotices, type SendOptions, type SendOutcome } from '../lapse-watch/lapse-sender.js';
 
 const RUN_LOCK = `hashtext('beadroll.lapse-watch')`;
 const SENDER_LOCK = `hashtext('beadroll.lapse-sender')`;
@@ -171,7 +171,7 @@ export async function runDueLapseWatch(
  * One tick of the frequent sender: sends what is due under the sender lock; null when another instance
  * holds it (it is sending right now).
  */
-export async function runSenderTick(deps: LapseWatchDeps): Promise<SendOutcome | null> {
+export async function runSenderTick(deps: LapseWatchDeps, opts: SendOptions = {}): Promise<SendOutcome | null> {
   const lockHolder = deps.dataSource.createQueryRunner();
   await lockHolder.connect();
   try {
@@ -180,7 +180,7 @@ export async function runSenderTick(deps: LapseWatchDeps): Promise<SendOutcome |
     }[];
     if (!lock?.locked) return null;
     try {
-      return await sendDueNotices(deps);
+      return await sendDueNotices(deps, opts);
     } finally {
       await lockHolder.query(`SELECT pg_advisory_unlock(${SENDER_LOCK})`);
     }
