@@ -142,7 +142,8 @@ describe('a company clock', () => {
     expect(ran.body).toMatchObject({ asOf: '2026-06-01', noticesCreated: 1, emailsSent: 3 });
     // On 06-15 the 7-day warning is still there to send: the look-ahead used nothing up.
     clock.day('2026-06-15');
-    const later = await qa.post('/api/lapse-watch/runs').send({});
+    const qaLater = await signIn(api.app, w.qa.email, TEST_PASSWORD); // two weeks on: a new session
+    const later = await qaLater.post('/api/lapse-watch/runs').send({});
     expect(later.body).toMatchObject({ asOf: '2026-06-15', noticesCreated: 1, emailsSent: 3 });
     expect((await mailsTo(dir, w.qa.email)).at(-1)!.text).toContain('lapses on 2026-06-20 (5 days left)');
   });

@@ -50,16 +50,23 @@ describe('lapse events from the refresh', () => {
         qualificationSchema,
         await qa.post(`/api/coupons/${couponId}/certify`).send({ certifiedOn, version: 1 }).expect(201),
       );
-    const grid = (welder: WelderRow, month: string, body: { usedOn?: string; remove?: boolean }) =>
-      qa
+    /** A save of the welder's SMAW cell in a month, sending the version of the cell as it stands. */
+    const grid = async (welder: WelderRow, month: string, body: { usedOn?: string; remove?: boolean }) => {
+      const [cell] = await api.ds.query<{ version: number }[]>(
+        `SELECT version FROM continuity_entries WHERE welder_id = $1 AND process = 'SMAW' AND shop_id = $2 AND month = $3::date`,
+        [welder.id, welder.homeShopId, `${month}-01`],
+      );
+      const version = cell?.version ?? null;
+      return qa
         .put('/api/continuity/grid')
         .send({
           shopId: welder.homeShopId,
           month,
-          cells: body.usedOn ? [{ welderId: welder.id, process: 'SMAW', usedOn: body.usedOn, jobReference: 'JOB-5120' }] : [],
-          remove: body.remove ? [{ welderId: welder.id, process: 'SMAW' }] : [],
+          cells: body.usedOn ? [{ welderId: welder.id, process: 'SMAW', usedOn: body.usedOn, jobReference: 'JOB-5120', version }] : [],
+          remove: body.remove ? [{ welderId: welder.id, process: 'SMAW', version }] : [],
         })
         .expect(200);
+    };
     const send = () => sendDueNotices(api.deps, { organizationIds: [w.org.id] });
     const mails = () => mailsTo(dir, w.qa.email);
     return { ...w, qa, wps, coupon, certify, grid, send, mails };
