@@ -101,7 +101,7 @@ describe('password reset answers before it looks anything up', () => {
     const slow: Mailer = {
       send: async (m) => {
         await new Promise((r) => setTimeout(r, 2000));
-        await real.send(m);
+        return real.send(m);
       },
       close: () => real.close(),
     };
