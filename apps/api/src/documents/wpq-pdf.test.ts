@@ -1,4 +1,4 @@
-import { qualifiedRanges } from '@beadroll/rules';
+import { qualifiedRanges, RULES_VERSION } from '@beadroll/rules';
 import { describe, expect, it } from 'vitest';
 import type { WpqDocumentData } from './document-data.js';
 import { exampleWpq, manySpecimens, VERIFY_URL } from './__fixtures__/harrow-point.js';
@@ -143,7 +143,7 @@ describe('renderWpqPdf', () => {
       'Odile Fenwright, QA Manager',
       '18 Mar 2025',
       'Signature',
-      'Beadroll rules version 1.0.0',
+      `Beadroll rules version ${RULES_VERSION}`,
       VERIFY_URL,
     ])
       expect(text).toContain(s);
