@@ -2,8 +2,10 @@
 // read again, the coupon must be one the rules can give ranges for, the bend specimens are judged (or the
 // RT/UT result taken) and combined with the visual examination. Pure: no database, no clock.
 import {
+  RANGES_NOTICE,
   RULES_VERSION,
   RulesInputError,
+  criteriaSets,
   evaluateBendTest,
   formatLength,
   parseLength,
@@ -13,6 +15,9 @@ import {
   type couponRecordInput,
   type recordedDiscontinuitySchema,
   type CriteriaId,
+  type CouponEvaluation as StoredEvaluation,
+  type CriteriaRef,
+  type EvaluationPart,
 } from '@beadroll/rules';
 import type { z } from 'zod';
 import { CODE_NAMES } from '../documents/document-format.js';
@@ -32,7 +37,7 @@ export type StoredSpecimen = {
 };
 
 export type StoredExamination =
-  | { method: 'bend'; criteria: CriteriaId; specimens: StoredSpecimen[] }
+  | { method: 'bend'; criteria: CriteriaId; additionalCriteria?: CriteriaId; specimens: StoredSpecimen[] }
   | {
       method: 'radiography' | 'ultrasonic';
       result: 'accept' | 'reject';
@@ -46,8 +51,32 @@ export type CouponEvaluation = {
   result: Result;
   reasons: Reason[];
   criteriaId: CriteriaId | null;
+  additionalCriteriaId: CriteriaId | null;
+  /** Stored with the coupon: the parts, the code's criteria met and any in-house set applied in addition. */
+  evaluation: StoredEvaluation;
   rulesVersion: string;
 };
+
+const refOf = (c: { id: string; name: string; clause: string; source: string }): CriteriaRef => ({
+  id: c.id,
+  name: c.name,
+  clause: c.clause,
+  source: c.source,
+});
+
+/** A coupon is judged by its code's criteria; an in-house set only in addition (issue 9). */
+function checkCriteria(input: CouponFields): void {
+  const ex = input.examination;
+  if (ex.method !== 'bend') return;
+  const code = input.coupon.code;
+  if (ex.criteria !== code)
+    throw AppError.validation(
+      {
+        'examination.criteria': `A ${CODE_NAMES[code]} coupon is judged by the code's own acceptance criteria (${criteriaSets[code].clause}); ${CODE_NAMES[ex.criteria as Coupon['code']] ?? 'shop practice'} criteria can be applied in addition (additionalCriteria), never instead`,
+      },
+      "The coupon must be judged by its code's acceptance criteria",
+    );
+}
 
 const prefixed = (prefix: string, fields: Record<string, string>): Record<string, string> =>
   Object.fromEntries(Object.entries(fields).map(([k, v]) => [k ? `${prefix}.${k}` : prefix, v]));
@@ -109,6 +138,7 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
   const coupon = withPipe(input, fields);
   checkSizes(input, fields);
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
+  checkCriteria(input);
 
   try {
     qualifiedRanges(coupon);
@@ -122,28 +152,47 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
   let examResult: Result;
   let reasons: Reason[] = [];
   const ex = input.examination;
+  const extra =
+    ex.method === 'bend' && ex.additionalCriteria && ex.additionalCriteria !== coupon.code
+      ? ex.additionalCriteria
+      : null;
+  let examPart: EvaluationPart;
   if (ex.method === 'bend') {
-    let evaluation;
-    try {
-      evaluation = evaluateBendTest({
-        criteria: ex.criteria,
-        wallThickness: coupon.thickness,
-        specimens: ex.specimens.map((s) => ({
-          ...(s.label ? { id: s.label } : {}),
-          kind: s.kind,
-          discontinuities: s.discontinuities.map((d) => ({
-            size: d.size,
-            location: d.location,
-            fusionRelated: d.fusionRelated,
-            ...(d.type ? { type: d.type } : {}),
-          })),
-        })),
-      });
-    } catch (err) {
-      if (err instanceof RulesInputError)
-        throw AppError.validation(prefixed('examination', err.fields), err.message);
-      throw err;
-    }
+    const specimens = ex.specimens.map((s) => ({
+      ...(s.label ? { id: s.label } : {}),
+      kind: s.kind,
+      discontinuities: s.discontinuities.map((d) => ({
+        size: d.size,
+        location: d.location,
+        fusionRelated: d.fusionRelated,
+        ...(d.type ? { type: d.type } : {}),
+      })),
+    }));
+    const judge = (criteria: CriteriaId) => {
+      try {
+        return evaluateBendTest({ criteria, wallThickness: coupon.thickness, specimens });
+      } catch (err) {
+        if (err instanceof RulesInputError)
+          throw AppError.validation(prefixed('examination', err.fields), err.message);
+        throw err;
+      }
+    };
+    const byCode = judge(ex.criteria);
+    const byExtra = extra ? judge(extra) : null;
+    // the in-house set only adds: each specimen takes the worse of the two verdicts
+    const evaluation = byExtra
+      ? {
+          ...byCode,
+          result:
+            RANK[byExtra.result as Result] > RANK[byCode.result as Result] ? byExtra.result : byCode.result,
+          specimens: byCode.specimens.map((s, i) => {
+            const e = byExtra.specimens[i];
+            if (!e || RANK[e.result as Result] <= RANK[s.result as Result])
+              return { ...s, reasons: [...s.reasons, ...(e?.reasons ?? [])] };
+            return { ...s, result: e.result, reasons: [...s.reasons, ...e.reasons] };
+          }),
+        }
+      : byCode;
     // a short or mixed specimen set is never judged as a whole (QW-302.3, QW-452.1(a))
     if (evaluation.result === 'incomplete')
       throw AppError.validation(
@@ -154,6 +203,7 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
     examination = {
       method: 'bend',
       criteria: ex.criteria,
+      ...(extra ? { additionalCriteria: extra } : {}),
       specimens: ex.specimens.map((s, i) => {
         const e = evaluation.specimens[i];
         return {
@@ -169,6 +219,19 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
     reasons = examination.specimens.flatMap((s) =>
       s.reasons.map((r) => ({ clause: r.clause, message: s.label ? `${s.label}: ${r.message}` : r.message })),
     );
+    examPart = {
+      kind: 'bend',
+      result: examResult,
+      criteria: [refOf(criteriaSets[ex.criteria]), ...(extra ? [refOf(criteriaSets[extra])] : [])],
+      reasons,
+      notes: evaluation.specimens.flatMap((s) => s.notes),
+      items: examination.specimens.map((s) => ({
+        ...(s.label ? { id: s.label } : {}),
+        kind: s.kind,
+        result: s.result,
+        reasons: s.reasons,
+      })),
+    };
   } else {
     examResult = ex.result;
     examination = {
@@ -183,7 +246,28 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
         clause: `${CODE_NAMES[coupon.code]} ${words.toLowerCase()} examination`,
         message: `${words} examination rejected${ex.reportNumber ? ` (report ${ex.reportNumber})` : ''}`,
       });
+    examPart = {
+      kind: ex.method,
+      result: examResult,
+      criteria: [
+        {
+          id: `${coupon.code}-${ex.method}`,
+          name: `${words} examination report`,
+          clause: `${CODE_NAMES[coupon.code]} ${words.toLowerCase()} examination`,
+          source: "the examination report's verdict",
+        },
+      ],
+      reasons: [...reasons],
+      notes: [],
+    };
   }
+  const visualPart: EvaluationPart = {
+    kind: 'visual',
+    result: input.visual,
+    criteria: [],
+    reasons: input.visual === 'reject' ? [visualReason(coupon.code)] : [],
+    notes: [],
+  };
 
   let result = examResult;
   if (input.visual === 'reject') {
@@ -204,12 +288,24 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
     );
   }
 
+  const codeSet = criteriaSets[coupon.code];
   return {
     coupon,
     examination,
     result,
     reasons,
     criteriaId: ex.method === 'bend' ? ex.criteria : null,
+    additionalCriteriaId: extra,
+    evaluation: {
+      result,
+      // a visual reject stops the examination there
+      parts: input.visual === 'reject' ? [visualPart] : [visualPart, examPart],
+      reasons,
+      codeCriteria: refOf(codeSet),
+      additionalCriteria: extra ? refOf(criteriaSets[extra]) : null,
+      rulesVersion: RULES_VERSION,
+      notice: RANGES_NOTICE,
+    },
     rulesVersion: RULES_VERSION,
   };
 }

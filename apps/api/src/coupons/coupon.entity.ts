@@ -21,6 +21,10 @@ export interface CouponRow {
   result: string;
   reasons: object;
   criteriaId: string | null;
+  /** An in-house criteria set applied in addition to the code's. */
+  additionalCriteriaId: string | null;
+  /** The stored evaluation (couponEvaluationSchema); null for coupons recorded before rules 2.0.0. */
+  evaluation: object | null;
   rulesVersion: string;
   notes: string;
   /** Optimistic-lock version: an edit from a stale version gets 409. */
@@ -52,6 +56,8 @@ export const CouponEntity = new EntitySchema<CouponRow>({
     result: col.text('result'),
     reasons: { type: 'jsonb', name: 'reasons' },
     criteriaId: col.text('criteria_id', true),
+    additionalCriteriaId: col.text('additional_criteria_id', true),
+    evaluation: col.jsonb('evaluation'),
     rulesVersion: col.text('rules_version'),
     notes: col.text('notes'),
     version: col.int('version'),

@@ -25,6 +25,8 @@ export interface CouponRaw {
   result: 'accept' | 'reject' | 'replace-specimen';
   reasons: Reason[];
   criteriaId: string | null;
+  additionalCriteriaId: string | null;
+  evaluation: unknown;
   rulesVersion: string;
   qualificationId: string | null;
   notes: string;
@@ -57,6 +59,8 @@ function couponsQuery(db: EntityManager, actor: Actor) {
     .addSelect('c.result', 'result')
     .addSelect('c.reasons', 'reasons')
     .addSelect('c.criteria_id', 'criteriaId')
+    .addSelect('c.additional_criteria_id', 'additionalCriteriaId')
+    .addSelect('c.evaluation', 'evaluation')
     .addSelect('c.rules_version', 'rulesVersion')
     .addSelect('q.id', 'qualificationId')
     .addSelect('c.notes', 'notes')
@@ -94,6 +98,8 @@ export interface LockedCoupon {
   coupon: Record<string, unknown>;
   result: string;
   version: number;
+  /** The criteria set the examination was judged by (null: radiography/ultrasonics report). */
+  criteriaId: string | null;
   qualificationId: string | null;
   snapshot: Record<string, unknown>;
 }
@@ -106,13 +112,14 @@ export async function lockCoupon(
 ): Promise<LockedCoupon | null> {
   const rows: LockedCoupon[] = await db.query(
     `SELECT c.id, c.welder_id AS "welderId", to_char(c.tested_on, 'YYYY-MM-DD') AS "testedOn", c.code, c.process,
-            c.coupon, c.result, c.version,
+            c.coupon, c.result, c.version, c.criteria_id AS "criteriaId",
             (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id) AS "qualificationId",
             json_build_object('shopId', c.shop_id, 'procedureId', c.procedure_id,
               'testedOn', to_char(c.tested_on, 'YYYY-MM-DD'), 'coupon', c.coupon, 'pipe', c.pipe,
               'pNumbers', c.p_numbers, 'examiner', c.examiner, 'labReportNumber', c.lab_report_number,
               'visual', c.visual, 'examination', c.examination, 'result', c.result, 'reasons', c.reasons,
-              'criteriaId', c.criteria_id, 'rulesVersion', c.rules_version, 'notes', c.notes) AS snapshot
+              'criteriaId', c.criteria_id, 'additionalCriteriaId', c.additional_criteria_id,
+              'rulesVersion', c.rules_version, 'notes', c.notes) AS snapshot
        FROM coupons c WHERE c.organization_id = $1 AND c.id = $2 FOR UPDATE OF c`,
     [organizationId, id],
   );
@@ -136,6 +143,8 @@ export type CouponWrite = Pick<
   | 'result'
   | 'reasons'
   | 'criteriaId'
+  | 'additionalCriteriaId'
+  | 'evaluation'
   | 'rulesVersion'
   | 'notes'
 >;

@@ -122,6 +122,8 @@ async function prepare(
       result: evaluation.result,
       reasons: evaluation.reasons,
       criteriaId: evaluation.criteriaId,
+      additionalCriteriaId: evaluation.additionalCriteriaId,
+      evaluation: evaluation.evaluation,
       rulesVersion: evaluation.rulesVersion,
       notes: input.notes,
     },

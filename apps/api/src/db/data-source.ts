@@ -23,6 +23,7 @@ import { ContinuityEntryEntity, ContinuityStateEntity } from '../continuity/cont
 import { LapseWatch1764892800000 } from './migrations/1764892800000-lapse-watch.js';
 import { ContinuityIndexes1764979200000 } from './migrations/1764979200000-continuity-indexes.js';
 import { LapseDelivery1765200000000 } from './migrations/1765200000000-lapse-delivery.js';
+import { CouponEvaluation1765300000000 } from './migrations/1765300000000-coupon-evaluation.js';
 import { ImportsAndApiTokens1765700000000 } from './migrations/1765700000000-imports-and-api-tokens.js';
 import { Sessions1765500000000 } from './migrations/1765500000000-sessions.js';
 import { ImportPhase1765700000001 } from './migrations/1765700000001-import-phase.js';
@@ -51,7 +52,7 @@ export const entities = [
   LapseNoticeEntity,
   NoticeDeliveryEntity,
 ];
-export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001];
+export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001, CouponEvaluation1765300000000];
 
 export interface DataSourceOptions {
   /** Pool size; the API default suits one instance on a small machine. */

@@ -48,7 +48,10 @@ const STALE_COUPON =
  * largest lead time; else current — the same decision as the rules package's continuityStatus.
  */
 export function qualificationStatus(
-  q: Pick<repo.QualificationRaw, 'qualifiedOn' | 'revokedOn' | 'stateLapsesOn' | 'stateLastEvidence' | 'warnDays'>,
+  q: Pick<
+    repo.QualificationRaw,
+    'qualifiedOn' | 'revokedOn' | 'stateLapsesOn' | 'stateLastEvidence' | 'warnDays'
+  >,
   asOf: string,
 ): Status {
   // No state row only if the refresh never ran for this pair: lapsed at the test date, the safe answer.
@@ -125,6 +128,11 @@ export async function certifyCoupon(
       if (coupon.qualificationId) throw AppError.conflict('This coupon is already certified');
       if (coupon.version !== input.version) throw AppError.conflict(STALE_COUPON);
       if (coupon.result !== 'accept') throw AppError.conflict('Only a passing coupon can be certified');
+      // a certified WPQ names the code's criteria it met; in-house criteria alone never qualify (issue 9)
+      if (coupon.criteriaId !== null && coupon.criteriaId !== coupon.code)
+        throw AppError.conflict(
+          "This coupon was judged by in-house criteria instead of its code's; record it again judged by the code's criteria (in-house criteria can be added to them) before certifying",
+        );
       const now = deps.clock.now();
       if (input.certifiedOn < coupon.testedOn)
         throw AppError.validation({

@@ -130,8 +130,11 @@ export const examinationResults = ['accept', 'reject', 'replace-specimen'] as co
 export const examinationInput = z.discriminatedUnion('method', [
   z.object({
     method: z.literal('bend'),
+    /** The coupon code's own criteria (the server refuses any other: issue 9). */
     criteria: criteriaIdSchema,
-    specimens: z.array(recordedSpecimenSchema).min(1, 'Add at least one bend specimen').max(20),
+    /** An in-house set judged in addition to the code's, never instead (e.g. 'shop-general'). */
+    additionalCriteria: criteriaIdSchema.optional(),
+    specimens: z.array(recordedSpecimenSchema).min(1, 'Add at least one bend specimen').max(24),
   }),
   z.object({
     method: z.enum(['radiography', 'ultrasonic']),
@@ -272,6 +275,7 @@ export const couponRecordSchema = z.object({
     z.object({
       method: z.literal('bend'),
       criteria: criteriaIdSchema,
+      additionalCriteria: criteriaIdSchema.optional(),
       specimens: z.array(
         recordedSpecimenSchema.extend({
           result: z.enum(examinationResults),
@@ -291,6 +295,11 @@ export const couponRecordSchema = z.object({
   result: z.enum(examinationResults),
   reasons: z.array(couponReasonSchema),
   criteriaId: criteriaIdSchema.nullable(),
+  /** An in-house set applied in addition to the code's criteria. */
+  additionalCriteriaId: criteriaIdSchema.nullable(),
+  /** The evaluation as stored: parts, reasons, the code's criteria it met, rules version; null for
+   *  coupons recorded before rules 2.0.0. */
+  evaluation: couponEvaluationSchema.nullable(),
   rulesVersion: z.string(),
   /** The qualification certified from this coupon, if any. */
   qualificationId: z.string().nullable(),
