@@ -45,6 +45,8 @@ export type QualifiedRangesData = Pick<
 export type DiscontinuityData = {
   /** The size exactly as the examiner typed it ('3/16', '1-1/4 in', '4 mm'). */
   sizeText: string;
+  /** The size as read; printed with its unit when the typed text has none ('3/16' → '3/16 in'). */
+  size?: Length;
   location: 'surface' | 'corner';
   type?: 'crack' | 'porosity' | 'slag' | 'lack-of-fusion' | 'undercut' | 'tear' | 'other';
   fusionRelated?: boolean;
@@ -79,6 +81,8 @@ export type WpqDocumentData = {
   welder: { name: string; stamp: string };
   qualification: {
     id: string;
+    /** The company's record number, 'WPQ-2026-0042', printed instead of the id. */
+    number: string;
     code: CodeId;
     process: Process;
     transferMode?: TransferMode;

@@ -4,6 +4,32 @@ import type { WpqDocumentData } from './document-data.js';
 import { exampleWpq, manySpecimens, VERIFY_URL } from './__fixtures__/harrow-point.js';
 import { readPdf } from './__fixtures__/read-pdf.js';
 import { renderWpqPdf } from './wpq-pdf.js';
+import { execFileSync } from 'node:child_process';
+import { mkdtempSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+
+type Word = { text: string; page: number; xMin: number; yMin: number; xMax: number; yMax: number };
+
+/** Every word with its box, as poppler's pdftotext -bbox reads the file. */
+function wordBoxes(pdf: Buffer): Word[] {
+  const dir = mkdtempSync(path.join(tmpdir(), 'wpq-'));
+  try {
+    const file = path.join(dir, 'wpq.pdf');
+    writeFileSync(file, pdf);
+    const html = execFileSync('pdftotext', ['-bbox', file, '-'], { encoding: 'utf8' });
+    const words: Word[] = [];
+    let page = 0;
+    for (const line of html.split('\n')) {
+      if (line.includes('<page ')) page += 1;
+      const m = /<word xMin="([\d.]+)" yMin="([\d.]+)" xMax="([\d.]+)" yMax="([\d.]+)">(.*)<\/word>/.exec(line);
+      if (m) words.push({ page, xMin: +m[1]!, yMin: +m[2]!, xMax: +m[3]!, yMax: +m[4]!, text: m[5]! });
+    }
+    return words;
+  } finally {
+    rmSync(dir, { recursive: true, force: true });
+  }
+}
 
 const render = async (d: WpqDocumentData = exampleWpq()) => readPdf(await renderWpqPdf(d));
 
@@ -51,7 +77,7 @@ describe('renderWpqPdf', () => {
       'Harrow Point Fabrication',
       'Tamsin Vell-Arroyo',
       'ST-12',
-      'Record Q-2025-0147',
+      'Record WPQ-2025-0147',
       'ASME IX',
       'SMAW',
       'HPF-S101 rev 3',
@@ -106,7 +132,7 @@ describe('renderWpqPdf', () => {
       'Brannoc Lisle, certificate EX-4471',
       'LR-25-0392',
       'ASME IX acceptance criteria',
-      'F1 Face bend 1/32 Surface porosity No Accept',
+      'F1 Face bend 1/32 in Surface porosity No Accept',
       'R1 Root bend 1/16 in Surface slag Yes Accept',
       '3/16 Corner crack No',
       'F2 Face bend None seen',
@@ -187,7 +213,7 @@ describe('renderWpqPdf', () => {
     pages.forEach((page, i) => expect(page).toContain(`Page ${i + 1} of ${pages.length}`));
     pages
       .slice(1)
-      .forEach((page) => expect(page).toContain('WPQ record Q-2025-0147 · Tamsin Vell-Arroyo, stamp ST-12'));
+      .forEach((page) => expect(page).toContain('WPQ record WPQ-2025-0147 · Tamsin Vell-Arroyo, stamp ST-12'));
     for (const s of specimens) {
       expect(text).toContain(s.label);
       for (const dc of s.discontinuities) expect(text).toContain(dc.sizeText);
@@ -209,5 +235,37 @@ describe('renderWpqPdf', () => {
       },
     };
     await expect(renderWpqPdf(failed)).rejects.toThrow(/only for a coupon that passed/);
+  });
+
+  it('prints the footer on separate lines: the whole verify link on one line, no word over another (issue 10 item 8)', async () => {
+    const base = exampleWpq();
+    const long = `${VERIFY_URL}${'x'.repeat(40)}`;
+    const pdf = await renderWpqPdf({
+      ...base,
+      verifyUrl: long,
+      examination: { ...base.examination, test: { method: 'bend', criteria: 'aws-d1.1', result: 'accept', specimens: manySpecimens(12) } },
+    });
+    const words = wordBoxes(pdf);
+    const pages = Math.max(...words.map((w) => w.page));
+    expect(pages).toBeGreaterThanOrEqual(2);
+    for (let p = 1; p <= pages; p += 1) {
+      const footer = words.filter((w) => w.page === p && w.yMin > 720);
+      const url = footer.filter((w) => long.includes(w.text) && w.text.length > 10);
+      expect(url.map((w) => w.text).join(''), `page ${p}`).toBe(long);
+      for (const a of footer)
+        for (const b of footer) {
+          if (a === b) continue;
+          const overlap = a.xMin < b.xMax - 0.5 && b.xMin < a.xMax - 0.5 && a.yMin < b.yMax - 0.5 && b.yMin < a.yMax - 0.5;
+          expect(overlap, `page ${p}: "${a.text}" over "${b.text}"`).toBe(false);
+        }
+    }
+  });
+
+  it('names the record by its WPQ number, never by its id, and prints each clause once per variable row', async () => {
+    const d = exampleWpq();
+    const { text } = await render(d);
+    expect(text).toContain('WPQ-2025-0147');
+    expect(text).not.toContain(d.qualification.id);
+    expect(text).toMatch(/Weld type Groove Groove and fillet welds —/);
   });
 });

@@ -3,6 +3,7 @@
 import { formatLength } from '@beadroll/rules';
 import type {
   BendExaminationData,
+  Length,
   QualifiedRangesData,
   VolumetricExaminationData,
   WpqDocumentData,
@@ -40,6 +41,12 @@ const DISCONTINUITY_WORDS = {
 } as const;
 
 const cap = (s: string): string => s.charAt(0).toUpperCase() + s.slice(1);
+
+/** A size as typed, with its unit when the typed text has none ('3/16' → '3/16 in'). */
+function sizeWithUnit(dc: { sizeText: string; size?: Length }): string {
+  if (!dc.size || /[a-z"]/i.test(dc.sizeText)) return dc.sizeText;
+  return formatLength(dc.size);
+}
 
 /** The caution every WPQ carries (DESIGN.md, Safety and authority). */
 export function wpqCaution(companyName: string, rulesVersion: string): string {
@@ -87,12 +94,8 @@ function variableRows(d: WpqDocumentData): Row[] {
   ]
     .filter(Boolean)
     .join(' and ');
-  add(
-    'Weld type',
-    cap(c.weld),
-    weldsQualified ? `${cap(weldsQualified)} welds` : 'none',
-    clausesFor(r, 'positions'),
-  );
+  // The positions clause is printed once, on the test position row below.
+  add('Weld type', cap(c.weld), weldsQualified ? `${cap(weldsQualified)} welds` : 'none', '—');
   add(
     'Test position',
     `${c.position} (${c.form})`,
@@ -146,7 +149,7 @@ function bendRows(test: BendExaminationData): Row[] {
       rows.push({
         cells: [
           ...(j === 0 ? head : ['', '']),
-          dc.sizeText,
+          sizeWithUnit(dc),
           dc.location === 'corner' ? 'Corner' : 'Surface',
           dc.type ? DISCONTINUITY_WORDS[dc.type] : '—',
           dc.fusionRelated ? 'Yes' : 'No',
@@ -190,7 +193,7 @@ function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
       [
         { header: 'Specimen', share: 9 },
         { header: 'Kind', share: 12 },
-        { header: 'Discontinuity size (as entered)', share: 18 },
+        { header: 'Discontinuity size', share: 18 },
         { header: 'Location', share: 10 },
         { header: 'Type', share: 13 },
         { header: 'Slag or fusion cause seen', share: 13 },
@@ -266,7 +269,7 @@ function drawFirstHeader(l: FlowLayout, d: WpqDocumentData): void {
   const rx = l.right - rightWidth;
   l.style({ size: 11, bold: true }).text(d.company.name, rx, top + 2, { width: rightWidth, align: 'right' });
   const after = doc.y;
-  l.style({ size: 8.5, color: MUTED }).text(`Record ${d.qualification.id}`, rx, after + 1, {
+  l.style({ size: 8.5, color: MUTED }).text(`Record ${d.qualification.number}`, rx, after + 1, {
     width: rightWidth,
     align: 'right',
   });
@@ -277,7 +280,7 @@ function drawFirstHeader(l: FlowLayout, d: WpqDocumentData): void {
 
 function drawContinuationHeader(l: FlowLayout, d: WpqDocumentData): void {
   l.style({ size: 8, color: MUTED }).text(
-    `WPQ record ${d.qualification.id} · ${d.welder.name}, stamp ${d.welder.stamp} · ${d.company.name} (continued)`,
+    `WPQ record ${d.qualification.number} · ${d.welder.name}, stamp ${d.welder.stamp} · ${d.company.name} (continued)`,
     l.left,
     l.y,
     { width: l.width, lineBreak: false },
@@ -364,7 +367,7 @@ export function renderWpqPdf(d: WpqDocumentData): Promise<Buffer> {
     margins: { top: 44, bottom: 60, left: 46, right: 46 },
     bufferPages: true,
     info: {
-      Title: `WPQ record ${q.id} — ${d.welder.name} (${d.welder.stamp})`,
+      Title: `WPQ record ${q.number} — ${d.welder.name} (${d.welder.stamp})`,
       Author: d.company.name,
       Creator: 'Beadroll',
       Subject: `${CODE_NAMES[q.code]} ${q.process} welder performance qualification`,
@@ -428,22 +431,31 @@ export function renderWpqPdf(d: WpqDocumentData): Promise<Buffer> {
     drawCaution(l, d);
 
     stampPages(doc, (page, pages) => {
-      const y = doc.page.height - 44;
+      // pdftotext boxes a 7 pt line about 10 pt tall: 11 pt between lines keeps them apart.
+      const y = doc.page.height - 42;
+      const y0 = y - (d.verifyUrl ? 11 : 0);
       doc
         .save()
-        .moveTo(l.left, y - 6)
-        .lineTo(l.right, y - 6)
+        .moveTo(l.left, y0 - 6)
+        .lineTo(l.right, y0 - 6)
         .lineWidth(0.4)
         .strokeColor(HAIRLINE)
         .stroke()
         .restore();
-      const left = `Beadroll rules version ${d.rulesVersion} · Record ${q.id}${d.verifyUrl ? ` · Check today's status: ${d.verifyUrl}` : ''}`;
-      l.style({ size: 7, color: MUTED }).text(left, l.left, y, {
+      // Each footer line is drawn at its own y and never wraps: the verify link has a line of its own,
+      // in a size that fits the width, so it cannot run into the line below.
+      l.style({ size: 7, color: MUTED }).text(`Beadroll rules version ${d.rulesVersion} · Record ${q.number}`, l.left, y0, {
         width: l.width - 70,
         lineBreak: false,
-        ellipsis: true,
       });
-      l.style({ size: 7, color: MUTED }).text(`Page ${page} of ${pages}`, l.right - 70, y, {
+      if (d.verifyUrl) {
+        const line = `Check today's status: ${d.verifyUrl}`;
+        let size = 7;
+        l.style({ size, color: MUTED });
+        while (size > 4.5 && doc.widthOfString(line) > l.width) l.style({ size: (size -= 0.25), color: MUTED });
+        doc.text(line, l.left, y, { lineBreak: false });
+      }
+      l.style({ size: 7, color: MUTED }).text(`Page ${page} of ${pages}`, l.right - 70, y0, {
         width: 70,
         align: 'right',
         lineBreak: false,
@@ -451,7 +463,7 @@ export function renderWpqPdf(d: WpqDocumentData): Promise<Buffer> {
       l.style({ size: 6.5, color: MUTED }).text(
         'The code edition in force, the company quality manual and the responsible inspector govern this record.',
         l.left,
-        y + 10,
+        y + 11,
         { width: l.width, lineBreak: false },
       );
     });

@@ -7,6 +7,8 @@ export interface QualificationRow {
   organizationId: string;
   welderId: string;
   couponId: string;
+  /** 'WPQ-2026-0042': drawn by the database at insert (per company and year of certification). */
+  number: string;
   code: string;
   process: string;
   transferMode: string | null;
@@ -34,6 +36,7 @@ export const QualificationEntity = new EntitySchema<QualificationRow>({
     organizationId: col.uuid('organization_id'),
     welderId: col.uuid('welder_id'),
     couponId: col.uuid('coupon_id'),
+    number: { type: 'text', name: 'number', insert: false, update: false },
     code: col.text('code'),
     process: col.text('process'),
     transferMode: col.text('transfer_mode', true),

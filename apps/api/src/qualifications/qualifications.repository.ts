@@ -9,6 +9,7 @@ export interface QualificationRaw {
   id: string;
   welder: { id: string; name: string; stamp: string };
   couponId: string;
+  number: string;
   code: string;
   process: string;
   transferMode: string | null;
@@ -39,6 +40,7 @@ function qualificationsQuery(db: EntityManager, actor: Actor) {
     .select('q.id', 'id')
     .addSelect(`json_build_object('id', w.id, 'name', w.name, 'stamp', w.stamp)`, 'welder')
     .addSelect('q.coupon_id', 'couponId')
+    .addSelect('q.number', 'number')
     .addSelect('q.code', 'code')
     .addSelect('q.process', 'process')
     .addSelect('q.transfer_mode', 'transferMode')
@@ -107,6 +109,7 @@ export async function insertQualification(
   row: Omit<
     QualificationRow,
     | 'id'
+    | 'number'
     | 'version'
     | 'createdAt'
     | 'updatedAt'

@@ -72,6 +72,7 @@ export function qualificationStatus(
 function toQualification(r: repo.QualificationRaw, asOf: string): Qualification {
   return {
     id: r.id,
+    number: r.number,
     welder: r.welder,
     couponId: r.couponId,
     code: r.code as Qualification['code'],
@@ -273,6 +274,7 @@ function examinationData(c: CouponRecord): WpqDocumentData['examination'] {
             result: s.result,
             discontinuities: s.discontinuities.map((d) => ({
               sizeText: d.sizeText,
+              size: d.size,
               location: d.location,
               ...(d.type ? { type: d.type } : {}),
               fusionRelated: d.fusionRelated,
@@ -301,6 +303,7 @@ export async function wpqPdf(
     welder: { name: q.welder.name, stamp: q.welder.stamp },
     qualification: {
       id: q.id,
+      number: q.number,
       code: q.code as Coupon['code'],
       process: q.process as Coupon['process'],
       ...(c.transferMode ? { transferMode: c.transferMode } : {}),

@@ -337,6 +337,8 @@ export const qualificationListQuery = z.object({
 
 export const qualificationSchema = z.object({
   id: z.string(),
+  /** The company's record number, 'WPQ-2026-0042' (per company and year of certification). */
+  number: z.string(),
   welder: z.object({ id: z.string(), name: z.string(), stamp: z.string() }),
   couponId: z.string(),
   code: codeIdSchema,

@@ -11,7 +11,8 @@ export function exampleWpq(overrides: Partial<WpqDocumentData> = {}): WpqDocumen
     company: { name: 'Harrow Point Fabrication' },
     welder: { name: 'Tamsin Vell-Arroyo', stamp: 'ST-12' },
     qualification: {
-      id: 'Q-2025-0147',
+      id: '5d0a3c1e-7b2f-4e9a-8c6d-1f2e3a4b5c6d',
+      number: 'WPQ-2025-0147',
       code: 'asme-ix',
       process: 'SMAW',
       wps: { number: 'HPF-S101', revision: '3' },
@@ -48,7 +49,7 @@ export function exampleWpq(overrides: Partial<WpqDocumentData> = {}): WpqDocumen
             label: 'F1',
             kind: 'face',
             result: 'accept',
-            discontinuities: [{ sizeText: '1/32', location: 'surface', type: 'porosity' }],
+            discontinuities: [{ sizeText: '1/32', size: { value: 1 / 32, unit: 'in' }, location: 'surface', type: 'porosity' }],
             reasons: [],
           },
           { label: 'F2', kind: 'face', result: 'accept', discontinuities: [], reasons: [] },
