@@ -139,6 +139,7 @@ export async function loadSessionActor(db: EntityManager, sessionId: string, now
               WHEN 'welder' THEN ARRAY(SELECT w.home_shop_id::text FROM welders w WHERE w.id = u.welder_id)
               ELSE ARRAY[]::text[]
             END AS "shopIds",
+            (SELECT st.time_zone FROM company_settings st WHERE st.organization_id = u.organization_id) AS "timeZone",
             s.id AS "sessionId", s.last_seen_at AS "lastSeenAt"
        FROM sessions s JOIN users u ON u.id = s.user_id
       WHERE s.id = $1 AND s.ended_at IS NULL AND s.expires_at > $2
