@@ -15,7 +15,9 @@ import { createMailer } from '../../../apps/api/src/lib/mailer.js';
 
 // Each test signs in from an address of its own (documentation range), told through X-Forwarded-For
 // to apps that trust the loopback proxy, so counts never spill over into other test files.
-const address = () => `198.51.100.${randomInt(1, 254)}`;
+// Drawn without repeats within this file, so one test's held address never meets another test's sign-ins.
+const unusedAddresses = Array.from({ length: 254 }, (_, i) => `198.51.100.${i + 1}`).sort(() => randomInt(3) - 1);
+const address = () => unusedAddresses.pop() ?? `203.0.113.${randomInt(1, 254)}`;
 const login = (api: TestApi, from: string, email: string, password: string) =>
   request(api.app).post('/api/auth/login').set('X-Forwarded-For', from).send({ email, password });
 
