@@ -17,6 +17,7 @@ import {
   type PlanContext,
   breathe,
   type Tick,
+  shopsByCodeOrName,
 } from './import-plan.js';
 import { dateHint, parseDay, parseMonth } from './cells.js';
 
@@ -46,15 +47,7 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
   const { db, actor, sheet } = ctx;
   const cols = new Columns(fields, ctx);
   const findings = new Findings();
-  const shops = await db.query<{ id: string; code: string; name: string }[]>(
-    `SELECT id, code, name FROM shops WHERE organization_id = $1`,
-    [actor.organizationId],
-  );
-  const shopByKey = new Map<string, string>();
-  for (const s of shops) {
-    shopByKey.set(s.code.toLowerCase(), s.id);
-    shopByKey.set(s.name.toLowerCase(), s.id);
-  }
+  const shopByKey = await shopsByCodeOrName(db, actor.organizationId);
   const welders = new Map(
     (
       await db.query<{ id: string; stamp: string; homeShopId: string }[]>(
@@ -80,7 +73,7 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
       findings.add(row.line, cols.header('date'), `“${dateText}” is not a date as ${dateHint[ctx.dateFormat]}, nor a month as YYYY-MM`);
     if (usedOn && usedOn > ctx.today) findings.add(row.line, cols.header('date'), `${usedOn} is in the future`);
     const shopText = cols.get(row, 'shop');
-    const shopId = shopText ? shopByKey.get(shopText.toLowerCase()) : welder?.homeShopId;
+    const shopId = shopText ? shopByKey.get(shopText.toLowerCase())?.id : welder?.homeShopId;
     if (shopText && !shopId) findings.add(row.line, cols.header('shop'), `No shop “${shopText}” in your company`);
     const parsed = cellSchema.safeParse({
       welderId: welder?.id ?? '00000000-0000-4000-8000-000000000000',

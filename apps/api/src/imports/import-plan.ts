@@ -118,3 +118,23 @@ export function batches<T>(items: T[], n: number): T[][] {
 
 /** Lets other requests (and the database pool's timers) run between slices of a long loop over rows. */
 export const breathe = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+export interface ShopRef {
+  id: string;
+  code: string;
+}
+
+/** The company's shops, found by code or by name as a spreadsheet writes them (any case). */
+export async function shopsByCodeOrName(db: EntityManager, organizationId: string): Promise<Map<string, ShopRef>> {
+  const shops = await db.query<{ id: string; code: string; name: string }[]>(
+    `SELECT id, code, name FROM shops WHERE organization_id = $1`,
+    [organizationId],
+  );
+  const byKey = new Map<string, ShopRef>();
+  for (const s of shops) {
+    const ref = { id: s.id, code: s.code };
+    byKey.set(s.code.toLowerCase(), ref);
+    byKey.set(s.name.toLowerCase(), ref);
+  }
+  return byKey;
+}

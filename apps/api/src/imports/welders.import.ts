@@ -12,6 +12,7 @@ import {
   type PlanContext,
   breathe,
   type Tick,
+  shopsByCodeOrName,
 } from './import-plan.js';
 
 const fields: FieldDef[] = [
@@ -33,16 +34,8 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
   const { db, actor, sheet } = ctx;
   const cols = new Columns(fields, ctx);
   const findings = new Findings();
-  const shops = await db.query<{ id: string; code: string; name: string }[]>(
-    `SELECT id, code, name FROM shops WHERE organization_id = $1`,
-    [actor.organizationId],
-  );
-  const shopByKey = new Map<string, { id: string; code: string }>();
-  for (const s of shops) {
-    shopByKey.set(s.code.toLowerCase(), s);
-    shopByKey.set(s.name.toLowerCase(), s);
-  }
-  const shopCode = new Map(shops.map((s) => [s.id, s.code]));
+  const shopByKey = await shopsByCodeOrName(db, actor.organizationId);
+  const shopCode = new Map([...shopByKey.values()].map((s) => [s.id, s.code]));
   const existing = new Map(
     (
       await db.query<Existing[]>(
@@ -60,7 +53,7 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
     const shopText = cols.get(row, 'homeShop');
     const shop = shopByKey.get(shopText.toLowerCase());
     if (shopText && !shop)
-      findings.add(row.line, cols.header('homeShop'), `No shop “${shopText}” in your company; use a shop code such as ${shops[0]?.code ?? 'MAIN'}`);
+      findings.add(row.line, cols.header('homeShop'), `No shop “${shopText}” in your company; use a shop code such as ${shopCode.values().next().value ?? 'MAIN'}`);
     const parsed = welderInput.safeParse({
       stamp: cols.get(row, 'stamp'),
       name: cols.get(row, 'name'),
