@@ -101,15 +101,14 @@ describe('/api/people', () => {
     ]);
   });
 
-  it('refuses an e-mail that already has an account, in any company (400 on email), saving nothing', async () => {
+  it('refuses an e-mail that is already a person of the company (400 on email), saving nothing', async () => {
     const world = await makeWorld(api.ds);
-    const other = await makeOtherCompany(api.ds);
     const qa = await signIn(api.app, world.qa.email, TEST_PASSWORD);
     const res = await qa
       .post('/api/people')
-      .send({ email: other.qa.email, name: 'Double', role: 'qa_manager' });
+      .send({ email: world.foreman.email, name: 'Double', role: 'qa_manager' });
     expect(res.status).toBe(400);
-    expect(errorOf(res).fields).toEqual({ email: `${other.qa.email} already has an account` });
+    expect(errorOf(res).fields).toEqual({ email: `${world.foreman.email} is already a person of your company` });
     expect(await api.ds.query(`SELECT 1 FROM users WHERE organization_id = $1`, [world.org.id])).toHaveLength(
       3,
     );

@@ -12,10 +12,16 @@ export interface SignInRow {
   active: boolean;
 }
 
+/**
+ * The account an e-mail signs in to: the one holding a password (at most one, by a unique index), else
+ * the most recently invited active one (a reset link then activates it, like the invitation would).
+ */
 export async function findSignIn(db: EntityManager, email: string): Promise<SignInRow | null> {
   const rows: SignInRow[] = await db.query(
     `SELECT id, organization_id AS "organizationId", password_hash AS "passwordHash", active
-       FROM users WHERE email = $1`,
+       FROM users WHERE email = $1
+      ORDER BY (password_hash IS NOT NULL) DESC, active DESC, invited_at DESC NULLS LAST
+      LIMIT 1`,
     [email],
   );
   return rows[0] ?? null;
@@ -56,6 +62,15 @@ export async function findMe(db: EntityManager, userId: string): Promise<MeRow |
     [userId],
   );
   return rows[0] ?? null;
+}
+
+/** Whether another account of the same address already holds a password (one sign-in per address). */
+export async function addressSignsInElsewhere(db: EntityManager, userId: string, email: string): Promise<boolean> {
+  const rows: unknown[] = await db.query(
+    `SELECT 1 FROM users WHERE email = $1 AND id <> $2 AND password_hash IS NOT NULL`,
+    [email, userId],
+  );
+  return rows.length > 0;
 }
 
 export async function recordSignIn(db: EntityManager, userId: string, at: Date): Promise<void> {

@@ -11,6 +11,7 @@ import {
   type TokenInfo,
 } from '@beadroll/rules';
 import { AppError } from '../lib/errors.js';
+import { isUniqueViolation } from '../lib/db-errors.js';
 import type { AppDeps } from '../lib/context.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
@@ -225,8 +226,20 @@ export async function getTokenInfo(deps: AppDeps, token: string): Promise<TokenI
     deps.clock.now(),
   );
   if (!row) throw AppError.validation({ token: BAD_LINK }, BAD_LINK);
+  if (!row.hadPassword && (await repo.addressSignsInElsewhere(deps.dataSource.manager, row.userId, row.email)))
+    throw addressTaken();
   return { email: row.email, name: row.name, purpose: row.purpose, expiresAt: row.expiresAt.toISOString() };
 }
+
+/**
+ * Told only to the holder of the link, i.e. the owner of the mailbox: an invitation to an address that
+ * already signs in for another company cannot be taken up, and that account stays as it is.
+ */
+const addressTaken = () =>
+  AppError.conflict(
+    'This e-mail address already signs in to Beadroll for another company. One address holds one sign-in: ' +
+      'ask whoever invited you to invite another address. Your existing sign-in is unchanged.',
+  );
 
 /** Uses a link: sets the password, voids every open link of the account, and signs the person in. */
 export async function setPassword(
@@ -240,6 +253,7 @@ export async function setPassword(
     const now = deps.clock.now();
     const row = await repo.findValidToken(db, tokenHash, now, true);
     if (!row) throw AppError.validation({ token: BAD_LINK }, BAD_LINK);
+    if (!row.hadPassword && (await repo.addressSignsInElsewhere(db, row.userId, row.email))) throw addressTaken();
     await repo.setPasswordHash(db, row.userId, passwordHash);
     await throttle.clearAccount(db, row.email);
     await repo.voidTokens(db, row.userId, now);
@@ -258,6 +272,10 @@ export async function setPassword(
       after: { status: 'active' },
     });
     return row.userId;
+  }).catch((err: unknown) => {
+    // Two invitations of one address taken up at the same moment: the unique index keeps one.
+    if (isUniqueViolation(err, 'users_sign_in_email_key')) throw addressTaken();
+    throw err;
   });
   // The new password ended every older session (trigger on users); this one starts fresh.
   return signIn(deps, userId, client);

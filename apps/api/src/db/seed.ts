@@ -163,7 +163,7 @@ async function ensureUser(
   const inserted: { id: string }[] = await db.query(
     `INSERT INTO users (organization_id, email, name, role, password_hash, welder_id, invited_at)
      VALUES ($1, $2, $3, $4, $5, $6, now())
-     ON CONFLICT (email) DO NOTHING RETURNING id`,
+     ON CONFLICT (organization_id, email) DO NOTHING RETURNING id`,
     [org, u.email, u.name, u.role, u.passwordHash, u.welderId ?? null],
   );
   r.created.users += inserted.length;

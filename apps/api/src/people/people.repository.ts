@@ -78,8 +78,12 @@ export async function lockPerson(
   return rows[0] ?? null;
 }
 
-export async function emailHasAccount(db: EntityManager, email: string): Promise<boolean> {
-  const rows: unknown[] = await db.query(`SELECT 1 FROM users WHERE email = $1`, [email]);
+/** Whether the address is already a person of this company (other companies' people are not asked about). */
+export async function emailIsPerson(db: EntityManager, organizationId: string, email: string): Promise<boolean> {
+  const rows: unknown[] = await db.query(`SELECT 1 FROM users WHERE organization_id = $1 AND email = $2`, [
+    organizationId,
+    email,
+  ]);
   return rows.length > 0;
 }
 

@@ -15,7 +15,11 @@ import * as repo from './people.repository.js';
 
 type PersonInput = z.output<typeof personInput>;
 
-const emailTaken = (email: string) => AppError.validation({ email: `${email} already has an account` });
+// Only the company's own people are checked: whether an address signs in for another company is never
+// told to an inviter (issue 11, finding 7). Such an invitation is saved and e-mailed like any other; the
+// address's owner is refused when using the link (auth.service setPassword), so that account is untouched.
+const emailTaken = (email: string) =>
+  AppError.validation({ email: `${email} is already a person of your company` });
 
 export async function listPeople(deps: AppDeps, actor: Actor): Promise<{ items: Person[] }> {
   return { items: await repo.listPeople(deps.dataSource.manager, actor) };
@@ -43,7 +47,7 @@ async function checkShops(db: EntityManager, actor: Actor, shopIds: string[]): P
 export async function invitePerson(deps: AppDeps, actor: Actor, input: PersonInput): Promise<Person> {
   const id = await deps.dataSource
     .transaction(async (db) => {
-      if (await repo.emailHasAccount(db, input.email)) throw emailTaken(input.email);
+      if (await repo.emailIsPerson(db, actor.organizationId, input.email)) throw emailTaken(input.email);
       const shopIds = input.role === 'foreman' ? await checkShops(db, actor, input.shopIds) : [];
       let welderId: string | null = null;
       if (input.role === 'welder' && input.welderId) {
@@ -79,7 +83,7 @@ export async function invitePerson(deps: AppDeps, actor: Actor, input: PersonInp
       return userId;
     })
     .catch((err: unknown) => {
-      if (isUniqueViolation(err, 'users_email_key')) throw emailTaken(input.email);
+      if (isUniqueViolation(err, 'users_org_email_key')) throw emailTaken(input.email);
       if (isUniqueViolation(err, 'users_welder_key'))
         throw AppError.validation({ welderId: 'This welder already has a sign-in' });
       throw err;
