@@ -1,6 +1,6 @@
 import { randomUUID } from 'node:crypto';
 import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
-import { createUpload } from '../../../apps/api/src/uploads/uploads.service.js';
+import { uploadBuffer } from '../../../apps/api/src/uploads/uploads.service.js';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { couponRecordSchema, procedureSchema, uploadSchema } from '@beadroll/rules';
 import { bodyOf, errorOf, signIn, startTestApi, type TestApi } from '../../support/api-app.js';
@@ -135,7 +135,7 @@ describe('uploads', () => {
       shopIds: [],
     };
     await expect(
-      createUpload(api.deps, ghost, { buffer: samplePng(), originalname: 'ghost.png' }, 'other'),
+      uploadBuffer(api.deps, ghost, { buffer: samplePng(), originalname: 'ghost.png' }, 'other'),
     ).rejects.toThrow();
     expect(await rowsOf(world.org.id)).toBe(0);
     expect(await objectsOf(world.org.id)).toEqual([]);

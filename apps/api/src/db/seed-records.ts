@@ -18,7 +18,7 @@ import type { Actor } from '../lib/scope.js';
 import { isoDay } from '../lib/dates.js';
 import { loadActor } from '../auth/auth.repository.js';
 import { createProcedure } from '../procedures/procedures.service.js';
-import { createUpload } from '../uploads/uploads.service.js';
+import { uploadBuffer } from '../uploads/uploads.service.js';
 import { createCoupon } from '../coupons/coupons.service.js';
 import { certifyCoupon } from '../qualifications/qualifications.service.js';
 import { ensureVerifyUrl } from '../verify/verify-tokens.service.js';
@@ -392,7 +392,7 @@ export async function seedRecords(
     );
     if (found) return found.id;
     r.uploads++;
-    return (await createUpload(deps, actor!, { buffer: await make(), originalname: fileName }, kind)).id;
+    return (await uploadBuffer(deps, actor!, { buffer: await make(), originalname: fileName }, kind)).id;
   }
   const photo = await ensureUpload('PV-07 root bend R1.png', 'specimen-photo', bentSpecimenPng);
   const photo2 = await ensureUpload('ST-04 face bend F1.png', 'specimen-photo', bentSpecimenPng);

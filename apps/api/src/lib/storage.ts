@@ -7,6 +7,8 @@ import {
   PutObjectCommand,
   S3Client,
 } from '@aws-sdk/client-s3';
+import { Upload } from '@aws-sdk/lib-storage';
+import type { Readable } from 'node:stream';
 import type { Config } from '../config.js';
 
 export interface StoredObject {
@@ -14,8 +16,22 @@ export interface StoredObject {
   contentType: string | undefined;
 }
 
+/** An object being written from a stream: `done` settles when it is stored; `abort` leaves nothing. */
+export interface StreamingPut {
+  done: Promise<void>;
+  abort(): Promise<void>;
+}
+
+/** Parts of a streamed object: S3's smallest part, so at most about this much is held per upload. */
+export const STREAM_PART_BYTES = 5 * 1024 * 1024;
+
 export interface Storage {
   put(key: string, body: Buffer | Uint8Array, contentType: string): Promise<void>;
+  /**
+   * Stores a stream of unknown length: one PUT when it ends within one part, else a multipart upload of
+   * 5 MB parts, one at a time. Until `body` ends nothing is visible under `key`.
+   */
+  putStream(key: string, body: Readable, contentType: string): StreamingPut;
   get(key: string): Promise<StoredObject>;
   /** Whether an object exists under key. */
   exists(key: string): Promise<boolean>;
@@ -46,6 +62,26 @@ export function createStorage(s3: Config['s3']): Storage {
           ContentLength: body.byteLength,
         }),
       );
+    },
+    putStream(key, body, contentType) {
+      const upload = new Upload({
+        client,
+        params: { Bucket, Key: key, Body: body, ContentType: contentType },
+        queueSize: 1,
+        partSize: STREAM_PART_BYTES,
+        leavePartsOnError: false,
+      });
+      const done = upload.done().then(() => undefined);
+      // The caller reads the outcome from `done`; an abort's rejection of it is expected.
+      done.catch(() => undefined);
+      return {
+        done,
+        async abort() {
+          await upload.abort().catch(() => undefined);
+          // A part or a PUT that raced the abort: the key is new and random, so deleting it is safe.
+          await client.send(new DeleteObjectCommand({ Bucket, Key: key })).catch(() => undefined);
+        },
+      };
     },
     async get(key) {
       const out = await client.send(new GetObjectCommand({ Bucket, Key: key }));

@@ -15,14 +15,33 @@ export function uploadsRouter(deps: AppDeps, requireAuth: RequestHandler): Route
   const router = Router();
   router.use(requireAuth);
 
+  // Files stream to the object store as they arrive (uploads.service storeFile), never held whole in
+  // memory; multer parses the multipart body and enforces the size cap while the bytes flow.
+  const engine: multer.StorageEngine = {
+    _handleFile(req, file, cb) {
+      uploads.storeFile(deps, actorOf(req), file).then(
+        (stored) => cb(null, stored),
+        (err: unknown) => cb(err),
+      );
+    },
+    _removeFile(_req, file, cb) {
+      const { storageKey } = file as Partial<uploads.StoredFile>;
+      if (!storageKey) return cb(null);
+      deps.storage.delete(storageKey).then(
+        () => cb(null),
+        (err: unknown) => cb(err as Error),
+      );
+    },
+  };
   const parse = multer({
-    storage: multer.memoryStorage(),
+    storage: engine,
     limits: { fileSize: uploads.MAX_UPLOAD_BYTES, files: 1, fields: 5 },
     defParamCharset: 'utf8',
   }).single('file');
   const receive: RequestHandler = (req, res, next) => {
     parse(req, res, (err: unknown) => {
       if (!err) return next();
+      if (err instanceof AppError) return next(err);
       if (err instanceof multer.MulterError) {
         if (err.code === 'LIMIT_FILE_SIZE')
           return next(
@@ -40,7 +59,8 @@ export function uploadsRouter(deps: AppDeps, requireAuth: RequestHandler): Route
 
   router.post('/', requireRole('qa_manager'), receive, async (req, res) => {
     const body = req.body as { kind?: unknown } | undefined;
-    res.status(201).json(await uploads.createUpload(deps, actorOf(req), req.file, body?.kind));
+    const stored = req.file as (Express.Multer.File & uploads.StoredFile) | undefined;
+    res.status(201).json(await uploads.createUpload(deps, actorOf(req), stored, body?.kind));
   });
 
   router.get('/:id', async (req, res) => {

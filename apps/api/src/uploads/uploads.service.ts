@@ -3,6 +3,8 @@
 // behind when a file is refused or the row cannot be written.
 import { createHash, randomUUID } from 'node:crypto';
 import path from 'node:path';
+import { once } from 'node:events';
+import { PassThrough, Readable } from 'node:stream';
 import { fileTypeFromBuffer } from 'file-type';
 import type { EntityManager } from 'typeorm';
 import { uploadKinds, type Upload } from '@beadroll/rules';
@@ -12,7 +14,7 @@ import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
 import { clipText } from '../lib/text.js';
-import { activePdfContent, jpegWithoutTrailer, pngWithoutTrailer } from './content-checks.js';
+import { imageCutter, PdfScanner } from './content-checks.js';
 import * as repo from './uploads.repository.js';
 
 export const MAX_UPLOAD_BYTES = 15 * 1024 * 1024;
@@ -30,9 +32,19 @@ export const ALLOWED_TYPES = new Set([
 
 const kindSchema = z.enum(uploadKinds, { error: `Kind must be one of ${uploadKinds.join(', ')}` });
 
+/** A file as it arrives in a multipart request: its bytes as a stream, the name the user gave it. */
 export interface IncomingFile {
-  buffer: Buffer;
+  stream: Readable;
   originalname: string;
+}
+
+/** A file stored in the object store by `storeFile`, not yet described by a row. */
+export interface StoredFile {
+  storageKey: string;
+  fileName: string;
+  contentType: string;
+  size: number;
+  sha256: string;
 }
 
 // Control characters, direction overrides and isolates (which can make "gpj.exe" read as "exe.jpg"), and
@@ -50,29 +62,127 @@ export function cleanFileName(name: string): string {
   return clipText(base.replace(UNWANTED_IN_NAME, '').trim() || 'file', MAX_FILE_NAME);
 }
 
+const notAllowed = (what: string) =>
+  AppError.validation(
+    { file: `Only JPEG, PNG, WebP, HEIC images and PDF files can be attached; this file is ${what}` },
+    'This file cannot be attached',
+  );
+const tooLarge = () => new AppError('payload_too_large', 'The file is larger than 15 MB; attach a smaller one');
+const storeDown = () =>
+  new AppError('unavailable', 'The file store is not answering; nothing was saved. Try again shortly.');
+
+/** Enough of the start of a file for its type to be recognised (file-type reads at most this much). */
+const HEAD_BYTES = 4100;
+
+/**
+ * Streams an arriving file to the object store, checked as it goes: its type is recognised from its first
+ * bytes (anything else is refused before a byte is stored), an image is cut after its end, a PDF is
+ * searched for active content, and the size cap is enforced by the parser while the bytes flow. Only a
+ * file that passes every check and arrives whole is stored; on any failure — a refusal, an oversize or
+ * interrupted upload, the store not answering — nothing is left in the store. At most one 5 MB part is
+ * held in memory.
+ */
+export async function storeFile(
+  deps: AppDeps,
+  actor: Actor,
+  file: IncomingFile,
+  maxBytes = MAX_UPLOAD_BYTES,
+): Promise<StoredFile> {
+  const { stream } = file;
+  let truncated = false;
+  stream.once('limit', () => {
+    truncated = true;
+  });
+  const chunks = stream[Symbol.asyncIterator]() as AsyncIterator<Buffer>;
+  const headParts: Buffer[] = [];
+  let headLength = 0;
+  let ended = false;
+  while (headLength < HEAD_BYTES) {
+    const next = await chunks.next();
+    if (next.done) {
+      ended = true;
+      break;
+    }
+    headParts.push(next.value);
+    headLength += next.value.length;
+  }
+  const head = Buffer.concat(headParts);
+  const detected = head.length ? await fileTypeFromBuffer(head) : undefined;
+  if (!detected || !ALLOWED_TYPES.has(detected.mime)) {
+    stream.resume();
+    throw notAllowed(detected ? detected.mime : head.length ? 'not recognised' : 'empty');
+  }
+  const contentType = detected.mime.replace(/-sequence$/, '');
+  const cutter = imageCutter(contentType);
+  const pdf = contentType === 'application/pdf' ? new PdfScanner() : null;
+  const storageKey = `uploads/${actor.organizationId}/${randomUUID()}`;
+  const body = new PassThrough();
+  const put = deps.storage.putStream(storageKey, body, contentType);
+  const failure = put.done.then(
+    () => null,
+    (err: unknown) => err ?? new Error('object store failed'),
+  );
+  const hash = createHash('sha256');
+  let size = 0;
+  const forward = async (chunk: Buffer) => {
+    if (pdf) await pdf.push(chunk);
+    const kept = cutter ? cutter.keep(chunk) : chunk;
+    if (kept.length === 0) return;
+    hash.update(kept);
+    size += kept.length;
+    if (!body.write(kept)) await Promise.race([once(body, 'drain'), failure]);
+  };
+  try {
+    await forward(head);
+    if (!ended)
+      for (let next = await chunks.next(); !next.done; next = await chunks.next()) {
+        if (truncated) break;
+        await forward(next.value);
+      }
+    if (truncated || size > maxBytes) throw tooLarge();
+    const active = pdf ? await pdf.end() : null;
+    if (active)
+      throw AppError.validation(
+        { file: `This PDF acts when opened (${active}); attach a plain PDF, for example printed to PDF again` },
+        'This file cannot be attached',
+      );
+    body.end();
+    const storeError = await failure;
+    if (storeError) {
+      deps.logger.error({ err: storeError, storageKey }, 'could not store an upload');
+      throw storeDown();
+    }
+  } catch (err) {
+    stream.resume();
+    body.destroy();
+    await put.abort();
+    if (err instanceof AppError) throw err;
+    const storeError = await Promise.race([failure, Promise.resolve(null)]);
+    if (storeError) throw storeDown();
+    // The request ended before the file did (the client went away, or the multipart body broke off).
+    throw AppError.validation({ file: 'The upload arrived incomplete or malformed; send it again' }, 'The upload is not valid');
+  }
+  return {
+    storageKey,
+    fileName: cleanFileName(file.originalname),
+    contentType,
+    size,
+    sha256: hash.digest('hex'),
+  };
+}
+
+/** Describes a stored file by a row and an audit event; the object is deleted if that cannot be done. */
 export async function createUpload(
   deps: AppDeps,
   actor: Actor,
-  file: IncomingFile | undefined,
+  stored: StoredFile | undefined,
   kindValue: unknown,
 ): Promise<Upload> {
-  const kind = kindSchema.safeParse(kindValue ?? 'other');
-  if (!file) throw AppError.validation({ file: 'Choose a file to attach' });
-  if (!kind.success) throw AppError.validation({ kind: kind.error.issues[0]?.message ?? 'Not a kind' });
-  const detected = await fileTypeFromBuffer(file.buffer);
-  if (!detected || !ALLOWED_TYPES.has(detected.mime))
-    throw AppError.validation(
-      {
-        file: `Only JPEG, PNG, WebP, HEIC images and PDF files can be attached; this file is ${detected ? detected.mime : 'not recognised'}`,
-      },
-      'This file cannot be attached',
-    );
-  const contentType = detected.mime.replace(/-sequence$/, '');
-  const body = keepOnlyContent(contentType, file.buffer);
-  const storageKey = `uploads/${actor.organizationId}/${randomUUID()}`;
-  const fileName = cleanFileName(file.originalname);
-  await deps.storage.put(storageKey, body, contentType);
   try {
+    const kind = kindSchema.safeParse(kindValue ?? 'other');
+    if (!stored) throw AppError.validation({ file: 'Choose a file to attach' });
+    if (!kind.success) throw AppError.validation({ kind: kind.error.issues[0]?.message ?? 'Not a kind' });
+    const { storageKey, fileName, contentType, size, sha256 } = stored;
     return await deps.dataSource.transaction(async (db) => {
       const now = deps.clock.now();
       const row = {
@@ -80,8 +190,8 @@ export async function createUpload(
         storageKey,
         fileName,
         contentType,
-        size: body.byteLength,
-        sha256: createHash('sha256').update(body).digest('hex'),
+        size,
+        sha256,
         kind: kind.data,
         uploadedBy: actor.id,
         createdAt: now,
@@ -92,32 +202,17 @@ export async function createUpload(
         entityType: 'upload',
         entityId: id,
         before: null,
-        after: { fileName, contentType, size: row.size, sha256: row.sha256, kind: row.kind },
+        after: { fileName, contentType, size, sha256, kind: row.kind },
       });
       return repo.toUpload({ ...row, id });
     });
   } catch (err) {
-    await deps.storage.delete(storageKey).catch((cleanup: unknown) => {
-      deps.logger.error({ err: cleanup, storageKey }, 'could not delete an orphaned upload object');
-    });
+    if (stored)
+      await deps.storage.delete(stored.storageKey).catch((cleanup: unknown) => {
+        deps.logger.error({ err: cleanup, storageKey: stored.storageKey }, 'could not delete an orphaned upload object');
+      });
     throw err;
   }
-}
-
-/** The bytes to keep: an active PDF is refused; an image loses anything after its end marker. */
-function keepOnlyContent(contentType: string, bytes: Buffer): Buffer {
-  if (contentType === 'application/pdf') {
-    const active = activePdfContent(bytes);
-    if (active)
-      throw AppError.validation(
-        { file: `This PDF acts when opened (${active}); attach a plain PDF, for example printed to PDF again` },
-        'This file cannot be attached',
-      );
-    return bytes;
-  }
-  if (contentType === 'image/png') return pngWithoutTrailer(bytes);
-  if (contentType === 'image/jpeg') return jpegWithoutTrailer(bytes);
-  return bytes;
 }
 
 async function findOrThrow(deps: AppDeps, actor: Actor, id: string) {
@@ -162,3 +257,14 @@ export async function checkAttachments(
 
 export const uploadsById = (db: EntityManager, organizationId: string, ids: string[]) =>
   repo.uploadsOfOrganization(db, organizationId, ids);
+
+/** A file the server itself attaches (the demo seed): the same checks and store as an upload. */
+export async function uploadBuffer(
+  deps: AppDeps,
+  actor: Actor,
+  file: { buffer: Buffer; originalname: string },
+  kind: unknown,
+): Promise<Upload> {
+  const stored = await storeFile(deps, actor, { stream: Readable.from([file.buffer]), originalname: file.originalname });
+  return createUpload(deps, actor, stored, kind);
+}
