@@ -95,6 +95,19 @@ export {
 export {
   continuityStatus,
   DEFAULT_WARN_DAYS,
+  type ContinuityRequirementStatus,
   type ContinuityState,
   type ContinuityStatus,
 } from './continuity/continuity-status.js';
+export {
+  continuityProfiles,
+  defaultContinuityProfile,
+  profileOfCode,
+  type ContinuityCheck,
+  type ContinuityPeriod,
+  type ContinuityProfile,
+  type ContinuityRequirement,
+} from './continuity/profiles.js';
+
+// the trade's names of internal ids, for every screen, PDF and e-mail
+export * from './names/display-names.js';

@@ -40,7 +40,7 @@ export function isIsoDate(text: string): boolean {
 }
 
 // Callers pass validated dates; slicing is what keeps continuity fast over long evidence lists.
-const yearOf = (d: IsoDate): number => digitsAt(d, 0, 4);
+export const yearOf = (d: IsoDate): number => digitsAt(d, 0, 4);
 const monthOf = (d: IsoDate): number => digitsAt(d, 5, 2);
 const dayOf = (d: IsoDate): number => digitsAt(d, 8, 2);
 
@@ -76,3 +76,6 @@ export function firstOfMonthAfter(date: IsoDate, months: number): IsoDate {
 }
 
 export const minDate = (a: IsoDate, b: IsoDate): IsoDate => (a <= b ? a : b);
+
+/** January 1 of a year. */
+export const firstOfYear = (year: number): IsoDate => `${pad4(year)}-01-01`;

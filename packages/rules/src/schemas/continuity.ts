@@ -8,18 +8,49 @@ export const isoRevalidationOptions = ['9.3a', '9.3b', '9.3c'] as const;
 export type IsoRevalidation = (typeof isoRevalidationOptions)[number];
 export const DEFAULT_ISO_REVALIDATION: IsoRevalidation = '9.3a';
 
-/** How 49 CFR 192.229(b) "within the preceding 6 calendar months" is counted (the CFR does not say):
- *  'whole-months' (default): the month of the last evidence plus six whole calendar months after it;
- *  'same-day': six calendar months from the date, as for ASME IX. */
+/** How the CFR's "calendar months" (49 CFR 192.229, 195.222) are counted; the CFR does not say.
+ *  'same-day' (the conservative reading): N calendar months from the day of the evidence, as for ASME IX
+ *    (use on January 20 counts through July 19 of a six-month window);
+ *  'whole-months' (the lenient reading): the month of the evidence plus N whole calendar months after it
+ *    (use in January counts through July 31).
+ *  'same-day' never lapses later than 'whole-months'. */
 export const cfrMonthCountings = ['whole-months', 'same-day'] as const;
 export type CfrMonthCounting = (typeof cfrMonthCountings)[number];
+/** The counting of the code's own rule when no profile is given (unchanged: the API's stored states use it). */
 export const DEFAULT_CFR_MONTH_COUNTING: CfrMonthCounting = 'whole-months';
+/** The counting of a continuity profile when none is chosen: the conservative reading. */
+export const CONSERVATIVE_CFR_MONTH_COUNTING: CfrMonthCounting = 'same-day';
+
+/** The periodic requalification profiles (continuity/profiles.ts), chosen per qualification. */
+export const continuityProfileIds = [
+  'asme-ix',
+  'aws-d1.1',
+  '49cfr-192.229b',
+  '49cfr-192.229c',
+  '49cfr-192.229d',
+  '49cfr-195.222b',
+  'iso-9606-1-9.3a',
+  'iso-9606-1-9.3b',
+  'iso-9606-1-9.3c',
+] as const;
+export type ContinuityProfileId = (typeof continuityProfileIds)[number];
+export const continuityProfileIdSchema = z.enum(continuityProfileIds, {
+  error: `Choose one of ${continuityProfileIds.join(', ')}`,
+});
+
+/** What a dated piece of continuity evidence is:
+ *  'use': documented welding with the process;
+ *  'test': a certified passing qualification test of the pair (renews it, even after a lapse);
+ *  'tested-weld': a production weld cut out or examined and found acceptable — use as well, and what
+ *  49 CFR 192.229(c)/(d), 195.222(b) and ISO 9606-1 9.3 b ask for. */
+export const evidenceKinds = ['use', 'test', 'tested-weld'] as const;
+export type EvidenceKind = (typeof evidenceKinds)[number];
 
 export const MAX_EVIDENCE = 5000;
 
 export const continuityEvidenceSchema = z.object({
   date: isoDateSchema,
-  kind: z.enum(['use', 'test'], { error: 'Kind must be use or test' }),
+  kind: z.enum(evidenceKinds, { error: 'Kind must be use, test or tested-weld' }),
 });
 export type ContinuityEvidence = z.infer<typeof continuityEvidenceSchema>;
 
@@ -34,5 +65,7 @@ export const continuityInputSchema = z.object({
   revokedOn: isoDateSchema.optional(),
   isoRevalidation: z.enum(isoRevalidationOptions).optional(),
   cfrMonthCounting: z.enum(cfrMonthCountings).optional(),
+  /** The periodic requalification profile; omitted: the code's own rule, exactly as before profiles. */
+  profile: continuityProfileIdSchema.optional(),
 });
 export type ContinuityInput = z.input<typeof continuityInputSchema>;
