@@ -27,6 +27,49 @@ export function lapsesOnSql(code: string, last: string, lastTest: string): strin
   return `(CASE ${code} ${branches.join(' ')} END)`;
 }
 
+const testOrUse = `CASE WHEN c.code = p.code AND EXISTS (SELECT 1 FROM qualifications t WHERE t.coupon_id = c.id)
+                        THEN 0 ELSE 1 END`;
+
+/**
+ * The pair's evidence inside its life (on or after the qualification date, before its revocation):
+ * passing coupons of the process (a test of the pair when certified under its code, else use) and every
+ * logged use of the process from any shop.
+ */
+function evidenceInLifeSql(cut: (col: string) => string): string {
+  const inLife = (d: string) => `${d} >= p.qualified_on AND (p.revoked_on IS NULL OR ${d} < p.revoked_on)`;
+  return `
+    SELECT p.pair_no, p.code, p.qualified_on, c.tested_on AS d, ${testOrUse} AS k, NULL::uuid AS entry_id
+      FROM pairs p
+      JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept'
+                    AND ${inLife('c.tested_on')} ${cut('c.tested_on')}
+    UNION ALL
+    SELECT p.pair_no, p.code, p.qualified_on, e.used_on, 1, e.id
+      FROM pairs p
+      JOIN continuity_entries e ON e.welder_id = p.welder_id AND e.process = p.process
+                               AND ${inLife('e.used_on')} ${cut('e.used_on')}`;
+}
+
+/**
+ * The evidence outside the pair's life, which counts for nothing (logged use there is flagged). Rare, so
+ * the logged use is reached per pair through the (welder_id, process, used_on) index (OFFSET 0 keeps each
+ * lateral lookup a range scan instead of one hash of every entry).
+ */
+function evidenceOutsideLifeSql(cut: (col: string) => string): string {
+  const entries = (from: string, when: string) => `
+    SELECT p.pair_no, e.used_on AS d, 1 AS k, e.id AS entry_id
+      FROM ${from} p
+      CROSS JOIN LATERAL (SELECT e.used_on, e.id FROM continuity_entries e
+                           WHERE e.welder_id = p.welder_id AND e.process = p.process AND ${when} ${cut('e.used_on')}
+                          OFFSET 0) e`;
+  return `
+    SELECT p.pair_no, c.tested_on AS d, ${testOrUse} AS k, NULL::uuid AS entry_id
+      FROM pairs p
+      JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept'
+                    AND (c.tested_on < p.qualified_on OR c.tested_on >= p.revoked_on) ${cut('c.tested_on')}
+    UNION ALL ${entries('pairs', 'e.used_on < p.qualified_on')}
+    UNION ALL ${entries('(SELECT * FROM pairs WHERE revoked_on IS NOT NULL)', 'e.used_on >= p.revoked_on')}`;
+}
+
 interface WalkOptions {
   /** Extra conditions on the qualifications `q` that make the pairs (e.g. one welder and process). */
   pairFilter?: string;
@@ -41,36 +84,29 @@ interface WalkOptions {
 export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
   const cut = (col: string) => (asOf ? `AND ${col} <= ${asOf}` : '');
   const f = (last: string, lastTest: string) => lapsesOnSql('code', last, lastTest);
+  const counted = '(w3.k = 0 OR NOT w3.broken)';
+  const renewal = '(w3.k = 0 AND (w3.gap OR w3.prev_broken))';
   return `
   pairs AS (
-    SELECT q.organization_id, q.welder_id, q.process, q.code, min(c.tested_on) AS qualified_on,
+    -- pair_no: a small number per pair, the walk's partition key (cheaper to sort on than welder, process, code).
+    SELECT row_number() OVER () AS pair_no, q.organization_id, q.welder_id, q.process, q.code, min(c.tested_on) AS qualified_on,
            CASE WHEN bool_and(q.revoked_on IS NOT NULL) FILTER (WHERE q.superseded_by_id IS NULL)
                 THEN max(q.revoked_on) FILTER (WHERE q.superseded_by_id IS NULL) END AS revoked_on
       FROM qualifications q JOIN coupons c ON c.id = q.coupon_id
      WHERE true ${pairFilter}
      GROUP BY q.organization_id, q.welder_id, q.process, q.code
   ),
-  ev AS (
-    -- Passing coupons of the process: a test of the pair when certified under its code, else use.
-    SELECT p.welder_id, p.process, p.code, p.qualified_on, p.revoked_on, c.tested_on AS d,
-           CASE WHEN c.code = p.code AND EXISTS (SELECT 1 FROM qualifications t WHERE t.coupon_id = c.id)
-                THEN 0 ELSE 1 END AS k,
-           NULL::uuid AS entry_id
-      FROM pairs p
-      JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept' ${cut('c.tested_on')}
-    UNION ALL
-    SELECT p.welder_id, p.process, p.code, p.qualified_on, p.revoked_on, e.used_on, 1, e.id
-      FROM pairs p
-      JOIN continuity_entries e ON e.welder_id = p.welder_id AND e.process = p.process ${cut('e.used_on')}
-  ),
+  ev_in AS (${evidenceInLifeSql(cut)}),
+  ev_out AS (${evidenceOutsideLifeSql(cut)}),
+  -- The walk proper runs over the evidence inside the pair's life only, one window partition per pair,
+  -- so the per-pair aggregate below reads the windows' own order and needs no second sort.
   w1 AS (
-    -- pre: outside the pair's life (before the qualification, or on or after its revocation).
     SELECT ev.*, row_number() OVER w AS rn,
            lag(ev.d, 1, ev.qualified_on) OVER w AS prev,
            coalesce(max(ev.d) FILTER (WHERE ev.k = 0) OVER (w ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING),
                     ev.qualified_on) AS test_before
-      FROM (SELECT ev.*, (ev.d < ev.qualified_on OR coalesce(ev.d >= ev.revoked_on, false)) AS pre FROM ev) ev
-    WINDOW w AS (PARTITION BY ev.welder_id, ev.process, ev.code, ev.pre ORDER BY ev.d, ev.k)
+      FROM ev_in ev
+    WINDOW w AS (PARTITION BY ev.pair_no ORDER BY ev.d, ev.k)
   ),
   w2 AS (
     SELECT w1.*, ${f('w1.prev', 'w1.test_before')} AS lapse_if_gap,
@@ -78,37 +114,60 @@ export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
       FROM w1
   ),
   w3 AS (
+    -- broken: a use after a gap that no later test has healed yet; prev_broken: the same of the row
+    -- before (computed here from the rows up to it, so the next level needs no lag and no new sort).
     SELECT w2.*,
            w2.k = 1 AND coalesce(
-             max(CASE WHEN w2.k = 1 AND w2.gap THEN w2.rn END) OVER w
-               > coalesce(max(CASE WHEN w2.k = 0 THEN w2.rn END) OVER w, 0),
-             false) AS broken
+             max(CASE WHEN w2.k = 1 AND w2.gap THEN w2.rn END) OVER upto
+               > coalesce(max(CASE WHEN w2.k = 0 THEN w2.rn END) OVER upto, 0),
+             false) AS broken,
+           coalesce(lag(w2.k) OVER upto = 1 AND
+             max(CASE WHEN w2.k = 1 AND w2.gap THEN w2.rn END) OVER before
+               > coalesce(max(CASE WHEN w2.k = 0 THEN w2.rn END) OVER before, 0),
+             false) AS prev_broken
       FROM w2
-    WINDOW w AS (PARTITION BY w2.welder_id, w2.process, w2.code, w2.pre ORDER BY w2.d, w2.k
-                 ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW)
+    WINDOW upto AS (PARTITION BY w2.pair_no ORDER BY w2.d, w2.k
+                    ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW),
+           before AS (PARTITION BY w2.pair_no ORDER BY w2.d, w2.k
+                      ROWS BETWEEN UNBOUNDED PRECEDING AND 1 PRECEDING)
+  ),
+  inlife AS NOT MATERIALIZED (
+    -- Each row's verdict, and (whole-partition frames, computed once per pair, in the walk's own order so
+    -- nothing is sorted twice) the pair's totals, carried on every row and read off its first.
+    SELECT w3.pair_no, w3.d, w3.k, w3.entry_id, w3.rn,
+           ${counted} AS counted, ${renewal} AS renewal,
+           CASE WHEN w3.gap AND NOT w3.prev_broken THEN w3.lapse_if_gap END AS lapsed_on,
+           max(w3.d) FILTER (WHERE ${counted}) OVER pair AS last_evidence,
+           max(w3.d) FILTER (WHERE ${counted} AND w3.k = 0) OVER pair AS last_test,
+           max(w3.d) FILTER (WHERE ${renewal}) OVER pair AS renewed_on,
+           array_agg(w3.d) FILTER (WHERE NOT ${counted}) OVER pair AS ignored
+      FROM w3
+    WINDOW pair AS (PARTITION BY w3.pair_no ORDER BY w3.d, w3.k
+                    ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING)
   ),
   walk AS (
-    SELECT w3.welder_id, w3.process, w3.code, w3.d, w3.k, w3.entry_id, w3.pre,
-           NOT w3.pre AND (w3.k = 0 OR NOT w3.broken) AS counted,
-           NOT w3.pre AND w3.k = 0 AND (w3.gap OR lag(w3.broken, 1, false) OVER w) AS renewal,
-           CASE WHEN NOT w3.pre AND w3.gap AND NOT lag(w3.broken, 1, false) OVER w THEN w3.lapse_if_gap END AS lapsed_on
-      FROM w3
-    WINDOW w AS (PARTITION BY w3.welder_id, w3.process, w3.code, w3.pre ORDER BY w3.d, w3.k)
+    SELECT p.welder_id, p.process, p.code, x.d, x.k, x.entry_id, x.pre, x.counted, x.renewal, x.lapsed_on
+      FROM (SELECT pair_no, d, k, entry_id, false AS pre, counted, renewal, lapsed_on FROM inlife
+            UNION ALL
+            SELECT pair_no, d, k, entry_id, true, false, false, NULL::date FROM ev_out) x
+      JOIN pairs p USING (pair_no)
+  ),
+  outside AS (
+    SELECT pair_no, array_agg(d) AS ds FROM ev_out GROUP BY pair_no
   ),
   agg AS (
-    SELECT welder_id, process, code,
-           max(d) FILTER (WHERE counted) AS last_evidence,
-           max(d) FILTER (WHERE counted AND k = 0) AS last_test,
-           max(d) FILTER (WHERE renewal) AS renewed_on,
-           array_agg(d ORDER BY d, k) FILTER (WHERE pre OR (k = 1 AND NOT counted)) AS ignored
-      FROM walk GROUP BY welder_id, process, code
+    SELECT pair_no, last_evidence, last_test, renewed_on, ignored FROM inlife WHERE rn = 1
   ),
   computed0 AS (
     SELECT p.organization_id, p.welder_id, p.process, p.code, p.qualified_on, p.revoked_on,
            coalesce(a.last_evidence, p.qualified_on) AS last_evidence,
            coalesce(a.last_test, p.qualified_on) AS last_test,
-           a.renewed_on, coalesce(a.ignored, '{}'::date[]) AS ignored
-      FROM pairs p LEFT JOIN agg a USING (welder_id, process, code)
+           a.renewed_on,
+           -- Use outside the pair's life and use after a lapse, in date order.
+           CASE WHEN o.ds IS NULL THEN coalesce(a.ignored, '{}'::date[])
+                ELSE ARRAY(SELECT x FROM unnest(coalesce(a.ignored, '{}'::date[]) || o.ds) AS x ORDER BY x) END AS ignored
+      FROM pairs p LEFT JOIN agg a USING (pair_no)
+      LEFT JOIN outside o USING (pair_no)
   ),
   computed AS (
     SELECT c.*, least(${f('c.last_evidence', 'c.last_test')}, c.revoked_on) AS lapses_on FROM computed0 c
@@ -335,12 +394,48 @@ export async function recomputeAll(
   );
 }
 
+/**
+ * The full recompute of every pair, materialized once into a temporary table `recomputed` that lives until
+ * the caller's transaction ends, so the three checks below share one walk. Call inside a transaction.
+ */
+export async function materializeRecompute(manager: EntityManager): Promise<void> {
+  await manager.query(`DROP TABLE IF EXISTS pg_temp.recomputed`);
+  await manager.query(
+    `CREATE TEMPORARY TABLE recomputed ON COMMIT DROP AS WITH ${walkCtes()}
+     SELECT organization_id, welder_id, process, code, qualified_on, last_evidence, last_test, lapses_on,
+            renewed_on, ignored FROM computed`,
+  );
+  await manager.query(`CREATE INDEX ON pg_temp.recomputed (welder_id, process, code)`);
+  await manager.query(`ANALYZE pg_temp.recomputed`);
+}
+
+/** What `continuity:verify` reports: everything stored that differs from one full recompute. */
+export interface ContinuityDifferences {
+  states: Awaited<ReturnType<typeof differingStates>>;
+  soonest: Awaited<ReturnType<typeof differingSoonest>>;
+  flags: Awaited<ReturnType<typeof differingFlags>>;
+}
+
+/** The three checks of `continuity:verify` from one walk (a transaction of its own when none is open). */
+export async function verifyContinuity(manager: EntityManager): Promise<ContinuityDifferences> {
+  const run = async (db: EntityManager) => {
+    await materializeRecompute(db);
+    return { states: await differingStates(db, true), soonest: await differingSoonest(db, true), flags: await differingFlags(db, true) };
+  };
+  return manager.queryRunner?.isTransactionActive ? run(manager) : manager.transaction(run);
+}
+
+/** The recompute a check reads: the materialized one when `materialized`, else the walk itself. */
+const source = (materialized: boolean) => (materialized ? '' : `WITH ${walkCtes()}`);
+const computedTable = (materialized: boolean) => (materialized ? 'pg_temp.recomputed' : 'computed');
+
 /** Pairs whose stored state differs from the full recompute (or is missing / left over). */
 export async function differingStates(
   manager: EntityManager,
+  materialized = false,
 ): Promise<{ welderId: string; process: string; code: string; stored: unknown; recomputed: unknown }[]> {
   return manager.query(
-    `WITH ${walkCtes()}
+    `${source(materialized)}
      SELECT coalesce(c.welder_id, s.welder_id) AS "welderId", coalesce(c.process, s.process) AS process,
             coalesce(c.code, s.code) AS code,
             CASE WHEN s.welder_id IS NULL THEN NULL ELSE json_build_object(
@@ -349,7 +444,7 @@ export async function differingStates(
             CASE WHEN c.welder_id IS NULL THEN NULL ELSE json_build_object(
               'qualifiedOn', c.qualified_on, 'lastEvidence', c.last_evidence, 'lastTest', c.last_test,
               'lapsesOn', c.lapses_on, 'renewedOn', c.renewed_on, 'ignored', c.ignored) END AS recomputed
-       FROM computed c
+       FROM ${computedTable(materialized)} c
        FULL JOIN continuity_states s USING (welder_id, process, code)
       WHERE (c.qualified_on, c.last_evidence, c.last_test, c.lapses_on, c.renewed_on, c.ignored, c.organization_id)
             IS DISTINCT FROM
@@ -361,12 +456,14 @@ export async function differingStates(
 /** Welders whose stored soonest_lapses_on differs from the one the full recompute gives. */
 export async function differingSoonest(
   manager: EntityManager,
+  materialized = false,
 ): Promise<{ welderId: string; stored: string | null; recomputed: string | null }[]> {
   return manager.query(
-    `WITH ${walkCtes()},
+    `${materialized ? 'WITH' : `WITH ${walkCtes()},`}
      soonest AS (
        SELECT q.welder_id, min(least(c.lapses_on, q.revoked_on)) AS m
-         FROM qualifications q JOIN computed c ON (c.welder_id, c.process, c.code) = (q.welder_id, q.process, q.code)
+         FROM qualifications q JOIN ${computedTable(materialized)} c
+           ON (c.welder_id, c.process, c.code) = (q.welder_id, q.process, q.code)
         WHERE q.superseded_by_id IS NULL GROUP BY q.welder_id
      )
      SELECT w.id AS "welderId", to_char(w.soonest_lapses_on, 'YYYY-MM-DD') AS stored,
@@ -383,12 +480,13 @@ export async function differingSoonest(
  */
 export async function differingFlags(
   manager: EntityManager,
+  materialized = false,
 ): Promise<{ entryId: string; flaggedLapsed: boolean; reviewStatus: string | null; recomputedFlag: boolean }[]> {
   return manager.query(
-    `WITH ${walkCtes()},
+    `${materialized ? 'WITH' : `WITH ${walkCtes()},`}
      expected AS (
        SELECT DISTINCT e.id FROM continuity_entries e
-         JOIN computed c ON c.welder_id = e.welder_id AND c.process = e.process
+         JOIN ${computedTable(materialized)} c ON c.welder_id = e.welder_id AND c.process = e.process
         WHERE e.used_on >= c.qualified_on AND e.used_on = ANY (c.ignored)
      )
      SELECT e.id AS "entryId", e.flagged_lapsed AS "flaggedLapsed", e.review_status AS "reviewStatus",
