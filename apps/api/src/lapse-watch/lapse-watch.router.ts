@@ -5,6 +5,7 @@ import type { AppDeps } from '../lib/context.js';
 import { actorOf, requireRole } from '../lib/auth.js';
 import { runLapseWatch } from '../jobs/lapse-watch.job.js';
 import * as lapseWatch from './lapse-watch.service.js';
+import { recordAudit } from '../lib/audit.js';
 
 export function lapseWatchRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
   const router = Router();
@@ -23,6 +24,15 @@ export function lapseWatchRouter(deps: AppDeps, requireAuth: RequestHandler): Ro
       trigger: 'manual',
       organizationIds: [actor.organizationId],
     });
+    // Who ran it by hand, and with what outcome, goes to the audit trail like every other change.
+    if (run)
+      await recordAudit(deps.dataSource.manager, actor, deps.clock.now(), {
+        action: 'lapse-watch.run',
+        entityType: 'lapse-watch-run',
+        entityId: run.id,
+        before: null,
+        after: { asOf: run.asOf, status: run.status, noticesCreated: run.noticesCreated },
+      });
     res.status(201).json(run);
   });
 

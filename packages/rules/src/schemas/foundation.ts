@@ -224,6 +224,7 @@ export const auditEntityTypes = [
   'company-settings',
   'api-token',
   'import',
+  'lapse-watch-run',
 ] as const;
 export type AuditEntityType = (typeof auditEntityTypes)[number];
 

@@ -26,6 +26,7 @@ const recordLabels: Record<AuditEntityType, string> = {
   'company-settings': 'Settings',
   'api-token': 'API tokens',
   import: 'Imports',
+  'lapse-watch-run': 'Lapse-watch runs by hand',
 };
 const recordTypes = [
   { value: '', label: 'All records' },
