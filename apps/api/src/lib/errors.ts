@@ -98,8 +98,13 @@ export function toAppError(err: unknown): AppError | null {
       case 'entity.too.large':
         return new AppError('payload_too_large', 'The request body is too large');
       case 'encoding.unsupported':
+        return new AppError('validation', 'The request body encoding is not supported', 400, {
+          _body: 'Send the body without a content encoding, or gzip, deflate or br',
+        });
       case 'charset.unsupported':
-        return new AppError('validation', 'The request body encoding is not supported');
+        return new AppError('validation', 'The request body encoding is not supported', 400, {
+          _body: 'Send the body in UTF-8',
+        });
     }
   }
   // A deadlock or serialization failure that escaped the retrying transaction helper (lib/transaction.ts).
@@ -114,6 +119,13 @@ export function toAppError(err: unknown): AppError | null {
     });
   const data = databaseDataError(err);
   if (data) return data;
+  // Any other client error the body parser raises (a gzip body that does not inflate, a body cut short)
+  // is the request's fault, never ours.
+  const status = (err as { status?: unknown; expose?: unknown } | null)?.status;
+  if (typeof status === 'number' && status >= 400 && status < 500 && (err as { expose?: unknown }).expose === true)
+    return new AppError('validation', 'The request body could not be read', 400, {
+      _body: 'The body could not be read as sent (check its content encoding and length)',
+    });
   return null;
 }
 
