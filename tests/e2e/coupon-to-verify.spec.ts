@@ -170,7 +170,11 @@ describe('from the coupon to the Verify page', () => {
     await page.waitForURL(/\/coupons\/[0-9a-f-]{36}$/);
     const stored = page.getByRole('region', { name: 'Stored verdict' });
     await stored.getByText('Accept', { exact: true }).waitFor();
-    await stored.getByText(/^Criteria set: asme-ix · rules version /).waitFor();
+    // The criteria are named in the trade's words with their clause, never by an internal code.
+    await stored.getByText(/^Judged by ASME Section IX guided bend \(ASME IX QW-163\) · rules version /).waitFor();
+    expect(await stored.getByText(/asme-ix/).count()).toBe(0);
+    // The examination is shown part by part with the verdict on each.
+    await page.getByRole('region', { name: 'Guided bend tests' }).getByText('Accept', { exact: true }).first().waitFor();
     await page.getByRole('img', { name: /Photo of Specimen 1 \(side\)/ }).waitFor();
 
     await page.getByRole('button', { name: 'Certify' }).click();

@@ -69,13 +69,16 @@ export function couponBody(
     examiner: { name: 'Ivo Testbench', certificateNumber: 'EX-0001' },
     labReportNumber: 'LR-T-001',
     visual: 'accept',
+    // A 6G pipe coupon takes four bends, two face and two root (from memory: ASME IX QW-452.1(a)).
     examination: {
-      method: 'bend',
-      criteria: 'asme-ix',
-      specimens: [
-        { label: 'F1', kind: 'face', discontinuities: [disc('1/32', { value: 1 / 32, unit: 'in' })] },
-        { label: 'R1', kind: 'root', discontinuities: [] },
-      ],
+      bend: {
+        specimens: [
+          { label: 'F1', kind: 'face', discontinuities: [disc('1/32', { value: 1 / 32, unit: 'in' })] },
+          { label: 'F2', kind: 'face', discontinuities: [] },
+          { label: 'R1', kind: 'root', discontinuities: [] },
+          { label: 'R2', kind: 'root', discontinuities: [] },
+        ],
+      },
     },
     notes: '',
     ...over,

@@ -29,8 +29,8 @@ describe('POST /api/coupons: the whole examination', () => {
     );
     expect(res.status).toBe(400);
     const fields = errorOf(res).fields ?? {};
-    expect(fields['examination.specimens']).toMatch(/incomplete/);
-    expect(fields['examination.specimens']).toMatch(/root/);
+    expect(fields['examination.bend']).toMatch(/incomplete/);
+    expect(fields['examination.bend']).toMatch(/root/);
     const [n] = await api.ds.query<{ n: number }[]>('SELECT count(*)::int AS n FROM coupons WHERE welder_id = $1', [ids.welderId]);
     expect(n!.n).toBe(0);
   });

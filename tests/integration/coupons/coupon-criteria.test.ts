@@ -60,14 +60,18 @@ describe('coupons: judged by the code’s criteria', () => {
 
   it('common practice (no source); published: ASME IX QW-163 (read second-hand) — shop criteria in addition reject 9/32 in in all that QW-163 alone accepts, and the stored evaluation names both', async () => {
     const { qa, ids } = await setup();
+    // a 6G pipe coupon: two face and two root bends (from memory: ASME IX QW-452.1(a))
     const exam = (additional?: 'shop-general') => ({
-      method: 'bend' as const,
       criteria: 'asme-ix' as const,
       ...(additional ? { additionalCriteria: additional } : {}),
-      specimens: [
-        { label: 'F1', kind: 'face' as const, discontinuities: threeSmall },
-        { label: 'R1', kind: 'root' as const, discontinuities: [] },
-      ],
+      bend: {
+        specimens: [
+          { label: 'F1', kind: 'face' as const, discontinuities: threeSmall },
+          { label: 'F2', kind: 'face' as const, discontinuities: [] },
+          { label: 'R1', kind: 'root' as const, discontinuities: [] },
+          { label: 'R2', kind: 'root' as const, discontinuities: [] },
+        ],
+      },
     });
     const codeOnly = bodyOf(
       couponRecordSchema,
@@ -91,7 +95,7 @@ describe('coupons: judged by the code’s criteria', () => {
     expect(both.evaluation?.parts.map((p) => p.kind)).toEqual(['visual', 'bend']);
     expect(both.evaluation?.parts[1]?.criteria.map((c) => c.id)).toEqual(['asme-ix', 'shop-general']);
     expect(both.reasons[0]?.message).toMatch(
-      /^F1: The 3 counted discontinuities add up to more than allowed/,
+      /^F1 \(face\): The 3 counted discontinuities add up to more than allowed/,
     );
     const [row] = await api.ds.query<
       [{ evaluation: { rulesVersion: string }; additional_criteria_id: string }]
@@ -113,7 +117,7 @@ describe('coupons: judged by the code’s criteria', () => {
       }),
     );
     expect(res.status).toBe(400);
-    expect(errorOf(res).fields?.['examination.specimens']).toMatch(/specimen set is incomplete/);
+    expect(errorOf(res).fields?.['examination.bend']).toMatch(/specimen set is incomplete/);
     expect(await count()).toBe(0);
   });
 

@@ -39,7 +39,7 @@ describe('POST /api/coupons: implausible sizes (common practice (no source): typ
     const fields = errorOf(res).fields ?? {};
     expect(fields['coupon.thickness.value']).toMatch(/^The coupon thickness of 1e\+20 in is not a plausible size: enter 0.01 in to 12 in$/);
     expect(fields['coupon.outsideDiameter.value']).toMatch(/^The outside diameter of 99999999 in is not a plausible size/);
-    expect(fields['examination.specimens.0.discontinuities.0.size.value']).toMatch(/^A discontinuity of 0 in is not a plausible size/);
+    expect(fields['examination.bend.specimens.0.discontinuities.0.size.value']).toMatch(/^A discontinuity of 0 in is not a plausible size/);
     const [n] = await api.ds.query<{ n: number }[]>('SELECT count(*)::int AS n FROM coupons WHERE welder_id = $1', [ids.welderId]);
     expect(n!.n).toBe(0);
   });

@@ -101,20 +101,21 @@ describe('coupons: record, evaluate, certify', () => {
         criteria: 'asme-ix',
         specimens: [
           { label: 'F1', kind: 'face', discontinuities: [] },
+          { label: 'F2', kind: 'face', discontinuities: [] },
           {
             label: 'R1',
             kind: 'root',
             discontinuities: [disc('3/16', { value: 0.1875, unit: 'in' }, { type: 'crack' })],
           },
+          { label: 'R2', kind: 'root', discontinuities: [] },
         ],
       },
     });
     const first = bodyOf(couponRecordSchema, await qa.post('/api/coupons').send(failing).expect(201));
     expect(first.result).toBe('reject');
     expect(first.reasons[0]?.clause).toMatch(/QW-163/);
-    expect(first.reasons[0]?.message).toMatch(/^R1: /);
-    const ex = first.examination;
-    expect(ex.method === 'bend' && ex.specimens.map((s) => s.result)).toEqual(['accept', 'reject']);
+    expect(first.reasons[0]?.message).toMatch(/^R1 \(root\): /);
+    expect(first.examination.bend?.specimens.map((s) => s.result)).toEqual(['accept', 'accept', 'reject', 'accept']);
 
     const refused = await qa
       .post(`/api/coupons/${first.id}/certify`)
@@ -144,7 +145,7 @@ describe('coupons: record, evaluate, certify', () => {
     expect((rejects.body as { items: unknown[] }).items).toHaveLength(1);
   });
 
-  it('rejects on a visual reject even when the bends pass', async () => {
+  it('rejects on a visual reject even when the bends pass (from memory: ASME IX QW-302.4, QW-194)', async () => {
     const { qa, ids } = await setup();
     const c = bodyOf(
       couponRecordSchema,
@@ -154,7 +155,10 @@ describe('coupons: record, evaluate, certify', () => {
         .expect(201),
     );
     expect(c.result).toBe('reject');
-    expect(c.reasons[0]).toMatchObject({ message: 'Visual examination rejected' });
+    expect(c.reasons[0]).toMatchObject({
+      clause: 'QW-302.4, QW-194',
+      message: 'The examiner rejected the weld on visual examination.',
+    });
   });
 
   it('takes the RT result instead of bends', async () => {
@@ -171,8 +175,9 @@ describe('coupons: record, evaluate, certify', () => {
     expect(c).toMatchObject({
       result: 'reject',
       criteriaId: null,
-      examination: { method: 'radiography', report: null },
+      examination: { volumetric: { method: 'radiography', examinerResult: 'reject', reportNumber: 'RT-9', report: null } },
     });
+    expect(c.reasons[0]?.message).toBe('The examination report rejects the weld.');
   });
 
   it('refuses a claimed result that disagrees, saving nothing', async () => {
@@ -182,12 +187,17 @@ describe('coupons: record, evaluate, certify', () => {
       examination: {
         method: 'bend',
         criteria: 'asme-ix',
-        specimens: [{ label: 'R1', kind: 'root', discontinuities: [disc('4 mm', { value: 4, unit: 'mm' })] }],
+        specimens: [
+          { label: 'F1', kind: 'face', discontinuities: [] },
+          { label: 'F2', kind: 'face', discontinuities: [] },
+          { label: 'R1', kind: 'root', discontinuities: [disc('4 mm', { value: 4, unit: 'mm' })] },
+          { label: 'R2', kind: 'root', discontinuities: [] },
+        ],
       },
     });
     const res = await qa.post('/api/coupons').send(body);
     expect(res.status).toBe(400);
-    expect(errorOf(res).fields?.claimedResult).toMatch(/^The evaluation gives reject, not accept: R1: /);
+    expect(errorOf(res).fields?.claimedResult).toMatch(/^The evaluation gives Reject, not Accept: R1 \(root\): /);
     const [n] = await api.ds.query<{ n: number }[]>(
       `SELECT count(*)::int AS n FROM coupons WHERE welder_id = $1`,
       [ids.welderId],
@@ -218,8 +228,8 @@ describe('coupons: record, evaluate, certify', () => {
     expect(res.status).toBe(400);
     const fields = errorOf(res).fields ?? {};
     expect(Object.keys(fields).sort()).toEqual([
-      'examination.specimens.0.discontinuities.1.size',
-      'examination.specimens.1.discontinuities.0.sizeText',
+      'examination.bend.specimens.0.discontinuities.1.size',
+      'examination.bend.specimens.1.discontinuities.0.sizeText',
     ]);
   });
 

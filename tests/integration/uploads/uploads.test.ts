@@ -171,13 +171,15 @@ describe('uploads', () => {
         criteria: 'asme-ix',
         specimens: [
           { kind: 'face', discontinuities: [], photoUploadId: foreign.id },
+          { kind: 'face', discontinuities: [] },
+          { kind: 'root', discontinuities: [] },
           { kind: 'root', discontinuities: [] },
         ],
       },
     });
     const res = await qa.post('/api/coupons').send(body);
     expect(errorOf(res).fields).toEqual({
-      'examination.specimens.0.photoUploadId': 'No such upload in your company',
+      'examination.bend.specimens.0.photoUploadId': 'No such upload in your company',
     });
     const res2 = await qa.post('/api/procedures').send({
       number: 'U-2',
@@ -217,6 +219,8 @@ describe('uploads', () => {
               criteria: 'asme-ix',
               specimens: [
                 { kind: 'root', discontinuities: [], photoUploadId: photo.id },
+                { kind: 'root', discontinuities: [] },
+                { kind: 'face', discontinuities: [] },
                 { kind: 'face', discontinuities: [] },
               ],
             },
@@ -224,8 +228,7 @@ describe('uploads', () => {
         )
         .expect(201),
     );
-    const ex = coupon.examination;
-    expect(ex.method === 'bend' && ex.specimens[0]?.photo?.fileName).toBe('r1.png');
+    expect(coupon.examination.bend?.specimens[0]?.photo?.fileName).toBe('r1.png');
 
     const foreman = await signIn(api.app, world.foreman.email, TEST_PASSWORD);
     await foreman.get(`/api/uploads/${photo.id}/content`).expect(200);

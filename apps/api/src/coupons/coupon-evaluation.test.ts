@@ -72,7 +72,7 @@ describe('evaluateCoupon', () => {
       fields({ examination: bend([{ sizeText: '5/32', size: { value: 5 / 32, unit: 'in' } }]) }),
     );
     expect(e.result).toBe('reject');
-    expect(e.reasons[0]?.message).toMatch(/^F1: /);
+    expect(e.reasons[0]?.message).toMatch(/^F1 \(face\): /);
     expect(e.reasons[0]?.clause).toMatch(/D1\.1/);
   });
 
@@ -85,12 +85,16 @@ describe('evaluateCoupon', () => {
     expect(evaluateCoupon(fields({ examination: bend(many) })).result).toBe('reject');
   });
 
-  it('puts a visual reject first and rejects the coupon', () => {
+  it('puts a visual reject first, stops the examination there and rejects the coupon (from memory: AWS D1.1-2015 4.9.1 welder visual criteria)', () => {
     const e = evaluateCoupon(fields({ visual: 'reject' }));
     expect(e.result).toBe('reject');
     expect(e.reasons).toEqual([
-      { clause: 'AWS D1.1 visual examination', message: 'Visual examination rejected' },
+      {
+        clause: 'AWS D1.1 4.9.1 (2015) welder visual criteria',
+        message: 'The examiner rejected the weld on visual examination.',
+      },
     ]);
+    expect(e.evaluation.parts.map((p) => p.kind)).toEqual(['visual']);
   });
 
   it('refuses a claimed verdict that differs, naming the first reason', () => {
@@ -102,10 +106,10 @@ describe('evaluateCoupon', () => {
         }),
       ),
     );
-    expect(f.claimedResult).toMatch(/^The evaluation gives reject, not accept: F1: .*\(AWS D1\.1/);
+    expect(f.claimedResult).toMatch(/^The evaluation gives Reject, not Accept: F1 \(face\): .*\(AWS D1\.1/);
     const g = fieldsOfError(() => evaluateCoupon(fields({ claimedResult: 'reject' })));
     expect(g.claimedResult).toBe(
-      'The evaluation gives accept, not reject: no discontinuity exceeds the criteria',
+      'The evaluation gives Accept, not Reject: every part of the examination meets the criteria',
     );
   });
 
@@ -122,8 +126,8 @@ describe('evaluateCoupon', () => {
       ),
     );
     expect(Object.keys(f).sort()).toEqual([
-      'examination.specimens.0.discontinuities.1.size',
-      'examination.specimens.0.discontinuities.2.sizeText',
+      'examination.bend.specimens.0.discontinuities.1.size',
+      'examination.bend.specimens.0.discontinuities.2.sizeText',
     ]);
   });
 
@@ -143,7 +147,10 @@ describe('evaluateCoupon', () => {
       fields({
         coupon: pipe,
         pipe: { nps: '6', schedule: '40' },
-        examination: { ...bend([]), criteria: 'asme-ix' },
+        examination: {
+          criteria: 'asme-ix',
+          bend: { specimens: [{ kind: 'face' }, { kind: 'face' }, { kind: 'root' }, { kind: 'root' }] },
+        },
       }),
     );
     expect(e.coupon.outsideDiameter).toEqual({ value: 6.625, unit: 'in' });
@@ -162,15 +169,39 @@ describe('evaluateCoupon', () => {
     for (const k of Object.keys(f)) expect(k.startsWith('coupon')).toBe(true);
   });
 
-  it('takes the RT result, with a reason for a reject', () => {
+  it('takes the RT report\'s reject, with its reason and clause (from memory: AWS D1.1-2015 4.30.3)', () => {
     const e = evaluateCoupon(
       fields({ examination: { method: 'radiography', result: 'reject', reportNumber: 'RT-7' } }),
     );
     expect(e).toMatchObject({
       result: 'reject',
       criteriaId: null,
-      reasons: [{ message: 'Radiographic examination rejected (report RT-7)' }],
+      reasons: [{ message: 'The examination report rejects the weld.' }],
     });
+    expect(e.reasons[0]?.clause).toMatch(/AWS D1\.1 4\.30\.3/);
+  });
+
+  it('refuses a 6G pipe coupon on one face and one root bend, naming examination.bend (from memory: ASME IX QW-452.1(a), four bends for 5G and 6G)', () => {
+    const f = fieldsOfError(() =>
+      evaluateCoupon(
+        fields({
+          coupon: {
+            code: 'asme-ix',
+            process: 'SMAW',
+            form: 'pipe',
+            weld: 'groove',
+            position: '6G',
+            thickness: { value: 0.28, unit: 'in' },
+            outsideDiameter: { value: 6.625, unit: 'in' },
+            backing: false,
+            progression: 'uphill',
+          },
+          examination: { bend: { specimens: [{ kind: 'face' }, { kind: 'root' }] } },
+        }),
+      ),
+    );
+    expect(Object.keys(f)).toEqual(['examination.bend']);
+    expect(f['examination.bend']).toMatch(/QW-452\.1/);
   });
 });
 
@@ -200,9 +231,9 @@ describe('procedureProblem and attachmentRefs', () => {
           },
         }),
       ),
-    ).toEqual([{ field: 'examination.specimens.1.photoUploadId', id }]);
+    ).toEqual([{ field: 'examination.bend.specimens.1.photoUploadId', id }]);
     expect(
       attachmentRefs(fields({ examination: { method: 'ultrasonic', result: 'accept', reportUploadId: id } })),
-    ).toEqual([{ field: 'examination.reportUploadId', id }]);
+    ).toEqual([{ field: 'examination.volumetric.reportUploadId', id }]);
   });
 });

@@ -1,23 +1,24 @@
 // The server's verdict on a coupon, from the same rules package the form uses: the typed sizes are
-// read again, the coupon must be one the rules can give ranges for, the bend specimens are judged (or the
-// RT/UT result taken) and combined with the visual examination. Pure: no database, no clock.
+// read again, the coupon must be one the rules can give ranges for, and the whole examination — visual
+// first, then bends (their count and kinds checked against the coupon's code, form, position and
+// thickness), radiography or ultrasonics in their place, fillet break and macro-etch, nick-breaks,
+// combination layers, retest — is judged by evaluateCoupon given the whole coupon. Pure: no database,
+// no clock.
 import {
-  RANGES_NOTICE,
-  RULES_VERSION,
   RulesInputError,
   criteriaSets,
-  evaluateBendTest,
+  evaluateCoupon as evaluateWholeCoupon,
   formatLength,
   parseLength,
   pipeDimensions,
-  qualifiedRanges,
   type Coupon,
+  type CouponEvaluationInput,
+  type CouponResult,
   type couponRecordInput,
-  type recordedDiscontinuitySchema,
   type CriteriaId,
   type CouponEvaluation as StoredEvaluation,
-  type CriteriaRef,
   type EvaluationPart,
+  type RecordedExamination,
 } from '@beadroll/rules';
 import type { z } from 'zod';
 import { CODE_NAMES } from '../documents/document-format.js';
@@ -27,23 +28,14 @@ export type CouponFields = Omit<z.output<typeof couponRecordInput>, 'welderId'>;
 export type Result = 'accept' | 'reject' | 'replace-specimen';
 export type Reason = { clause: string; message: string };
 
-export type StoredSpecimen = {
-  label?: string;
-  kind: 'face' | 'root' | 'side';
-  discontinuities: z.output<typeof recordedDiscontinuitySchema>[];
-  photoUploadId: string | null;
-  result: Result;
-  reasons: Reason[];
-};
+type RecordedSpecimen = NonNullable<RecordedExamination['bend']>['specimens'][number];
+export type StoredSpecimen = RecordedSpecimen & { result: CouponResult; reasons: Reason[] };
 
-export type StoredExamination =
-  | { method: 'bend'; criteria: CriteriaId; additionalCriteria?: CriteriaId; specimens: StoredSpecimen[] }
-  | {
-      method: 'radiography' | 'ultrasonic';
-      result: 'accept' | 'reject';
-      reportNumber: string;
-      reportUploadId: string | null;
-    };
+/** The examination as stored: as recorded, each bend specimen with its verdict, and the visual findings. */
+export type StoredExamination = Omit<RecordedExamination, 'bend'> & {
+  bend?: { specimens: StoredSpecimen[] };
+  visualFindings?: CouponFields['visual']['findings'];
+};
 
 export type CouponEvaluation = {
   coupon: Coupon;
@@ -57,19 +49,11 @@ export type CouponEvaluation = {
   rulesVersion: string;
 };
 
-const refOf = (c: { id: string; name: string; clause: string; source: string }): CriteriaRef => ({
-  id: c.id,
-  name: c.name,
-  clause: c.clause,
-  source: c.source,
-});
-
 /** A coupon is judged by its code's criteria; an in-house set only in addition (issue 9). */
 function checkCriteria(input: CouponFields): void {
   const ex = input.examination;
-  if (ex.method !== 'bend') return;
   const code = input.coupon.code;
-  if (ex.criteria !== code)
+  if (ex.criteria !== undefined && ex.criteria !== code)
     throw AppError.validation(
       {
         'examination.criteria': `A ${CODE_NAMES[code]} coupon is judged by the code's own acceptance criteria (${criteriaSets[code].clause}); ${CODE_NAMES[ex.criteria as Coupon['code']] ?? 'shop practice'} criteria can be applied in addition (additionalCriteria), never instead`,
@@ -85,10 +69,9 @@ const SAME = 1e-9;
 
 /** Sizes typed on the form, read again; a size the client parsed differently is refused. */
 function checkSizes(input: CouponFields, fields: Record<string, string>): void {
-  if (input.examination.method !== 'bend') return;
-  input.examination.specimens.forEach((s, i) =>
+  (input.examination.bend?.specimens ?? []).forEach((s, i) =>
     s.discontinuities.forEach((d, j) => {
-      const at = `examination.specimens.${i}.discontinuities.${j}`;
+      const at = `examination.bend.specimens.${i}.discontinuities.${j}`;
       let parsed;
       try {
         parsed = parseLength(d.sizeText);
@@ -125,12 +108,64 @@ function withPipe(input: CouponFields, fields: Record<string, string>): Coupon {
   return coupon;
 }
 
-const visualReason = (code: Coupon['code']): Reason => ({
-  clause: `${CODE_NAMES[code]} visual examination`,
-  message: 'Visual examination rejected',
-});
+/** The request field each examination part is recorded under (where a 400 about it points). */
+export const PART_FIELDS: Record<EvaluationPart['kind'], string> = {
+  visual: 'visual',
+  bend: 'examination.bend',
+  radiography: 'examination.volumetric',
+  ultrasonic: 'examination.volumetric',
+  'fillet-break': 'examination.filletBreak',
+  'macro-etch': 'examination.macroEtch',
+  'nick-break': 'examination.nickBreak',
+  combination: 'examination.layers',
+  retest: 'examination.retest',
+};
 
-const RANK: Record<Result, number> = { accept: 0, 'replace-specimen': 1, reject: 2 };
+/** A rules error's field, as the request names it ('bend.specimens.0…' → 'examination.bend.specimens.0…'). */
+const requestField = (k: string): string =>
+  k === '' ? 'examination' : /^(coupon|visual)(\.|$)/.test(k) ? k : `examination.${k}`;
+
+/** The input of the rules' evaluateCoupon: the whole coupon and every part of its examination. */
+export function evaluationInput(coupon: Coupon, input: CouponFields): CouponEvaluationInput {
+  const ex = input.examination;
+  const { reportUploadId: _r, ...volumetric } = ex.volumetric ?? { reportUploadId: null };
+  return {
+    coupon,
+    visual: input.visual,
+    ...(ex.additionalCriteria && ex.additionalCriteria !== coupon.code
+      ? { additionalCriteria: ex.additionalCriteria }
+      : {}),
+    ...(ex.bend
+      ? {
+          bend: {
+            specimens: ex.bend.specimens.map((s) => ({
+              ...(s.label ? { id: s.label } : {}),
+              kind: s.kind,
+              discontinuities: s.discontinuities.map((d) => ({
+                size: d.size,
+                location: d.location,
+                fusionRelated: d.fusionRelated,
+                ...(d.type ? { type: d.type } : {}),
+              })),
+            })),
+          },
+        }
+      : {}),
+    ...(ex.volumetric ? { volumetric: volumetric as NonNullable<CouponEvaluationInput['volumetric']> } : {}),
+    ...(ex.filletBreak ? { filletBreak: ex.filletBreak } : {}),
+    ...(ex.macroEtch ? { macroEtch: ex.macroEtch } : {}),
+    ...(ex.nickBreak ? { nickBreak: ex.nickBreak } : {}),
+    ...(ex.layers ? { layers: ex.layers } : {}),
+    ...(ex.retest ? { retest: ex.retest } : {}),
+  };
+}
+
+const RESULT_WORDS: Record<CouponResult, string> = {
+  accept: 'Accept',
+  reject: 'Reject',
+  'replace-specimen': 'Replace specimen',
+  incomplete: 'Incomplete',
+};
 
 /** Evaluates a coupon as recorded; throws AppError 400 with the fields at fault. */
 export function evaluateCoupon(input: CouponFields): CouponEvaluation {
@@ -140,184 +175,86 @@ export function evaluateCoupon(input: CouponFields): CouponEvaluation {
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
   checkCriteria(input);
 
+  let evaluation: StoredEvaluation;
   try {
-    qualifiedRanges(coupon);
+    evaluation = evaluateWholeCoupon(evaluationInput(coupon, input));
   } catch (err) {
-    if (err instanceof RulesInputError)
-      throw AppError.validation(prefixed('coupon', err.fields), err.message);
+    if (err instanceof RulesInputError) {
+      const out: Record<string, string> = {};
+      for (const [k, v] of Object.entries(err.fields)) out[requestField(k)] ??= v;
+      throw AppError.validation(out, err.message);
+    }
     throw err;
   }
 
-  let examination: StoredExamination;
-  let examResult: Result;
-  let reasons: Reason[] = [];
-  const ex = input.examination;
-  const extra =
-    ex.method === 'bend' && ex.additionalCriteria && ex.additionalCriteria !== coupon.code
-      ? ex.additionalCriteria
-      : null;
-  let examPart: EvaluationPart;
-  if (ex.method === 'bend') {
-    const specimens = ex.specimens.map((s) => ({
-      ...(s.label ? { id: s.label } : {}),
-      kind: s.kind,
-      discontinuities: s.discontinuities.map((d) => ({
-        size: d.size,
-        location: d.location,
-        fusionRelated: d.fusionRelated,
-        ...(d.type ? { type: d.type } : {}),
-      })),
-    }));
-    const judge = (criteria: CriteriaId) => {
-      try {
-        return evaluateBendTest({ criteria, wallThickness: coupon.thickness, specimens });
-      } catch (err) {
-        if (err instanceof RulesInputError)
-          throw AppError.validation(prefixed('examination', err.fields), err.message);
-        throw err;
-      }
-    };
-    const byCode = judge(ex.criteria);
-    const byExtra = extra ? judge(extra) : null;
-    // the in-house set only adds: each specimen takes the worse of the two verdicts
-    const evaluation = byExtra
-      ? {
-          ...byCode,
-          result:
-            RANK[byExtra.result as Result] > RANK[byCode.result as Result] ? byExtra.result : byCode.result,
-          specimens: byCode.specimens.map((s, i) => {
-            const e = byExtra.specimens[i];
-            if (!e || RANK[e.result as Result] <= RANK[s.result as Result])
-              return { ...s, reasons: [...s.reasons, ...(e?.reasons ?? [])] };
-            return { ...s, result: e.result, reasons: [...s.reasons, ...e.reasons] };
-          }),
-        }
-      : byCode;
-    // a short or mixed specimen set is never judged as a whole (QW-302.3, QW-452.1(a))
-    if (evaluation.result === 'incomplete')
-      throw AppError.validation(
-        { 'examination.specimens': evaluation.completeness[0]?.message ?? 'The specimen set is incomplete' },
-        'The bend specimen set is incomplete',
-      );
-    examResult = evaluation.result;
-    examination = {
-      method: 'bend',
-      criteria: ex.criteria,
-      ...(extra ? { additionalCriteria: extra } : {}),
-      specimens: ex.specimens.map((s, i) => {
-        const e = evaluation.specimens[i];
-        return {
-          ...(s.label ? { label: s.label } : {}),
-          kind: s.kind,
-          discontinuities: s.discontinuities,
-          photoUploadId: s.photoUploadId ?? null,
-          result: e?.result === 'incomplete' || !e ? 'accept' : e.result,
-          reasons: e?.reasons ?? [],
-        };
-      }),
-    };
-    reasons = examination.specimens.flatMap((s) =>
-      s.reasons.map((r) => ({ clause: r.clause, message: s.label ? `${s.label}: ${r.message}` : r.message })),
-    );
-    examPart = {
-      kind: 'bend',
-      result: examResult,
-      criteria: [refOf(criteriaSets[ex.criteria]), ...(extra ? [refOf(criteriaSets[extra])] : [])],
-      reasons,
-      notes: evaluation.specimens.flatMap((s) => s.notes),
-      items: examination.specimens.map((s) => ({
-        ...(s.label ? { id: s.label } : {}),
-        kind: s.kind,
-        result: s.result,
-        reasons: s.reasons,
-      })),
-    };
-  } else {
-    examResult = ex.result;
-    examination = {
-      method: ex.method,
-      result: ex.result,
-      reportNumber: ex.reportNumber,
-      reportUploadId: ex.reportUploadId ?? null,
-    };
-    const words = ex.method === 'radiography' ? 'Radiographic' : 'Ultrasonic';
-    if (ex.result === 'reject')
-      reasons.push({
-        clause: `${CODE_NAMES[coupon.code]} ${words.toLowerCase()} examination`,
-        message: `${words} examination rejected${ex.reportNumber ? ` (report ${ex.reportNumber})` : ''}`,
-      });
-    examPart = {
-      kind: ex.method,
-      result: examResult,
-      criteria: [
-        {
-          id: `${coupon.code}-${ex.method}`,
-          name: `${words} examination report`,
-          clause: `${CODE_NAMES[coupon.code]} ${words.toLowerCase()} examination`,
-          source: "the examination report's verdict",
-        },
-      ],
-      reasons: [...reasons],
-      notes: [],
-    };
+  // The examination the code calls for is not all there (a short or mixed bend set, a missing nick-break,
+  // radiography where the code forbids it…): never saved as a verdict, each missing part named.
+  if (evaluation.result === 'incomplete') {
+    const missing: Record<string, string> = {};
+    for (const part of evaluation.parts)
+      if (part.result === 'incomplete')
+        missing[PART_FIELDS[part.kind]] ??= part.reasons.map((r) => `${r.message} (${r.clause})`).join(' ');
+    throw AppError.validation(missing, 'The examination the code calls for is incomplete');
   }
-  const visualPart: EvaluationPart = {
-    kind: 'visual',
-    result: input.visual,
-    criteria: [],
-    reasons: input.visual === 'reject' ? [visualReason(coupon.code)] : [],
-    notes: [],
-  };
-
-  let result = examResult;
-  if (input.visual === 'reject') {
-    result = 'reject';
-    reasons = [visualReason(coupon.code), ...reasons];
-  }
-  if (RANK[examResult] > RANK[result]) result = examResult;
+  const result: Result = evaluation.result;
 
   if (input.claimedResult && input.claimedResult !== result) {
-    const first = reasons[0];
+    const first = evaluation.reasons[0];
     throw AppError.validation(
       {
-        claimedResult: `The evaluation gives ${result}, not ${input.claimedResult}: ${
-          first ? `${first.message} (${first.clause})` : 'no discontinuity exceeds the criteria'
+        claimedResult: `The evaluation gives ${RESULT_WORDS[result]}, not ${RESULT_WORDS[input.claimedResult]}: ${
+          first ? `${first.message} (${first.clause})` : 'every part of the examination meets the criteria'
         }`,
       },
       'The recorded verdict disagrees with the evaluation',
     );
   }
 
-  const codeSet = criteriaSets[coupon.code];
+  const ex = input.examination;
+  const bendItems = evaluation.parts.find((x) => x.kind === 'bend')?.items ?? [];
+  const { bend: _bend, ...rest } = ex;
+  const examination: StoredExamination = {
+    ...rest,
+    criteria: coupon.code,
+    ...(ex.bend
+      ? {
+          bend: {
+            specimens: ex.bend.specimens.map((s, i) => ({
+              ...s,
+              photoUploadId: s.photoUploadId ?? null,
+              result: bendItems[i]?.result ?? 'accept',
+              reasons: bendItems[i]?.reasons ?? [],
+            })),
+          },
+        }
+      : {}),
+    ...(input.visual.findings?.length ? { visualFindings: input.visual.findings } : {}),
+  };
+  const additional = evaluation.additionalCriteria?.id;
   return {
     coupon,
     examination,
     result,
-    reasons,
-    criteriaId: ex.method === 'bend' ? ex.criteria : null,
-    additionalCriteriaId: extra,
-    evaluation: {
-      result,
-      // a visual reject stops the examination there
-      parts: input.visual === 'reject' ? [visualPart] : [visualPart, examPart],
-      reasons,
-      codeCriteria: refOf(codeSet),
-      additionalCriteria: extra ? refOf(criteriaSets[extra]) : null,
-      rulesVersion: RULES_VERSION,
-      notice: RANGES_NOTICE,
-    },
-    rulesVersion: RULES_VERSION,
+    reasons: evaluation.reasons,
+    criteriaId: ex.bend ? coupon.code : null,
+    additionalCriteriaId:
+      additional && additional in criteriaSets ? (additional as CriteriaId) : null,
+    evaluation,
+    rulesVersion: evaluation.rulesVersion,
   };
 }
 
 /** The uploads a coupon refers to, each with the field that names it. */
 export function attachmentRefs(input: CouponFields): Array<{ field: string; id: string }> {
   const ex = input.examination;
-  if (ex.method === 'bend')
-    return ex.specimens.flatMap((s, i) =>
-      s.photoUploadId ? [{ field: `examination.specimens.${i}.photoUploadId`, id: s.photoUploadId }] : [],
-    );
-  return ex.reportUploadId ? [{ field: 'examination.reportUploadId', id: ex.reportUploadId }] : [];
+  return [
+    ...(ex.bend?.specimens ?? []).flatMap((s, i) =>
+      s.photoUploadId ? [{ field: `examination.bend.specimens.${i}.photoUploadId`, id: s.photoUploadId }] : [],
+    ),
+    ...(ex.volumetric?.reportUploadId
+      ? [{ field: 'examination.volumetric.reportUploadId', id: ex.volumetric.reportUploadId }]
+      : []),
+  ];
 }
 
 /** Why a WPS cannot back this coupon, or null when it can. */

@@ -5,6 +5,7 @@ import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import {
   couponRecordSchema,
+  upgradeExamination,
   type CouponRecord,
   type couponListQuery,
   type couponRecordInput,
@@ -32,34 +33,32 @@ const STALE =
 export const CERTIFIED_LOCKED = 'Certified coupons cannot be edited; record a new coupon';
 
 function uploadIdsOf(rows: repo.CouponRaw[]): string[] {
-  return rows.flatMap((r) =>
-    r.examination.method === 'bend'
-      ? r.examination.specimens.flatMap((s) => (s.photoUploadId ? [s.photoUploadId] : []))
-      : r.examination.reportUploadId
-        ? [r.examination.reportUploadId]
-        : [],
-  );
+  return rows.flatMap((r) => {
+    const ex = upgradeExamination(r.examination) as repo.CouponRaw['examination'];
+    return [
+      ...(ex.bend?.specimens ?? []).flatMap((s) => (s.photoUploadId ? [s.photoUploadId] : [])),
+      ...(ex.volumetric?.reportUploadId ? [ex.volumetric.reportUploadId] : []),
+    ];
+  });
 }
 
 function toRecord(r: repo.CouponRaw, uploads: Map<string, Upload>): CouponRecord {
-  const ex = r.examination;
-  const examination: CouponRecord['examination'] =
-    ex.method === 'bend'
-      ? {
-          method: 'bend',
-          criteria: ex.criteria,
-          specimens: ex.specimens.map((s) => ({
-            ...s,
-            photo: (s.photoUploadId && uploads.get(s.photoUploadId)) || null,
-          })),
-        }
-      : {
-          method: ex.method,
-          result: ex.result,
-          reportNumber: ex.reportNumber,
-          report: (ex.reportUploadId && uploads.get(ex.reportUploadId)) || null,
-        };
-  return couponRecordSchema.parse({ ...r, examination, createdAt: r.createdAt.toISOString() });
+  // rows written in the first shape ({ method, … }) by tools that insert directly are read in the current one
+  const { visualFindings, ...ex } = upgradeExamination(r.examination) as repo.CouponRaw['examination'];
+  const upload = (id: string | null | undefined) => (id && uploads.get(id)) || null;
+  const examination = {
+    ...ex,
+    ...(ex.bend
+      ? { bend: { specimens: ex.bend.specimens.map((s) => ({ ...s, photo: upload(s.photoUploadId) })) } }
+      : {}),
+    ...(ex.volumetric ? { volumetric: { ...ex.volumetric, report: upload(ex.volumetric.reportUploadId) } } : {}),
+  };
+  return couponRecordSchema.parse({
+    ...r,
+    visualFindings: visualFindings ?? [],
+    examination,
+    createdAt: r.createdAt.toISOString(),
+  });
 }
 
 async function toRecords(db: EntityManager, actor: Actor, rows: repo.CouponRaw[]): Promise<CouponRecord[]> {
@@ -117,7 +116,7 @@ async function prepare(
       pNumbers: input.pNumbers,
       examiner: input.examiner,
       labReportNumber: input.labReportNumber,
-      visual: input.visual,
+      visual: input.visual.result,
       examination: evaluation.examination,
       result: evaluation.result,
       reasons: evaluation.reasons,

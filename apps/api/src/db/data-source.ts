@@ -27,6 +27,7 @@ import { CouponEvaluation1765300000000 } from './migrations/1765300000000-coupon
 import { ImportsAndApiTokens1765700000000 } from './migrations/1765700000000-imports-and-api-tokens.js';
 import { Sessions1765500000000 } from './migrations/1765500000000-sessions.js';
 import { ImportPhase1765700000001 } from './migrations/1765700000001-import-phase.js';
+import { ExaminationParts1766200000000 } from './migrations/1766200000000-examination-parts.js';
 import { SignInThrottle1765500000001 } from './migrations/1765500000001-sign-in-throttle.js';
 import { WpqNumbers1765400000000 } from './migrations/1765400000000-wpq-numbers.js';
 import { InvitationsPerCompany1766400000000 } from './migrations/1766400000000-invitations-per-company.js';
@@ -54,7 +55,7 @@ export const entities = [
   LapseNoticeEntity,
   NoticeDeliveryEntity,
 ];
-export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001, CouponEvaluation1765300000000, WpqNumbers1765400000000, InvitationsPerCompany1766400000000];
+export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001, CouponEvaluation1765300000000, WpqNumbers1765400000000, ExaminationParts1766200000000, InvitationsPerCompany1766400000000];
 
 export interface DataSourceOptions {
   /** Pool size; the API default suits one instance on a small machine. */

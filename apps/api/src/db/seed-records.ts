@@ -12,6 +12,7 @@ import {
   procedureInput,
   type CouponRecordInput,
   type ProcedureInput,
+  type RecordedExaminationInput,
 } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import type { Actor } from '../lib/scope.js';
@@ -282,7 +283,7 @@ const plans: Record<string, Plan[]> = {
       },
       pipe: { nps: '8', schedule: '40' },
       criteria: 'api-1104',
-      kinds: ['root', 'root', 'face', 'face'],
+      kinds: ['root', 'root'],
     },
     {
       wps: 'P410-4',
@@ -299,7 +300,7 @@ const plans: Record<string, Plan[]> = {
       },
       pipe: { nps: '6', schedule: '40' },
       criteria: 'api-1104',
-      kinds: ['root', 'root', 'face', 'face'],
+      kinds: ['root', 'root'],
     },
   ],
 };
@@ -455,15 +456,28 @@ export async function seedRecords(
               : null,
       }));
       // PV-07's second test was examined by radiography instead of bends, with the lab's report attached.
-      const examination =
+      // API 1104 welder tests are nick-broken as well as bent (from memory: API 1104 welder qualification
+      // specimens): two for these OD 4-1/2 in to 12-3/4 in coupons, sound fractures.
+      const nickBreak =
+        plan.coupon.code === 'api-1104'
+          ? {
+              nickBreak: {
+                specimens: ['N1', 'N2'].map((id) => ({ id, completePenetrationAndFusion: true, gasPockets: [] })),
+              },
+            }
+          : {};
+      const examination: RecordedExaminationInput =
         w.stamp === 'PV-07' && k === 1
           ? {
-              method: 'radiography' as const,
-              result: 'accept' as const,
-              reportNumber: `RT-${lab}`,
-              reportUploadId: report,
+              volumetric: {
+                method: 'radiography',
+                indications: [],
+                examinerResult: 'accept',
+                reportNumber: `RT-${lab}`,
+                reportUploadId: report,
+              },
             }
-          : { method: 'bend' as const, criteria: plan.criteria, specimens };
+          : { criteria: plan.criteria, bend: { specimens }, ...nickBreak };
       const record = async (on: string, labNumber: string, exam: typeof examination, notes: string) => {
         const coupon = await createCoupon(
           deps,
@@ -499,9 +513,9 @@ export async function seedRecords(
           addDays(testedOn, 9),
           `${lab}-R`,
           {
-            method: 'bend',
             criteria: plan.criteria,
-            specimens: specimens.map((s) => ({ ...s, discontinuities: [] })),
+            bend: { specimens: specimens.map((s) => ({ ...s, discontinuities: [] })) },
+            ...nickBreak,
           },
           'Retest after the rejected coupon.',
         );

@@ -114,7 +114,10 @@ export type WpqDocumentData = {
   };
   examination: {
     visual: { result: ExaminationResult; remarks?: string };
-    test: BendExaminationData | VolumetricExaminationData;
+    /** The bends or the radiography/ultrasonics in their place; absent for a fillet coupon. */
+    test?: BendExaminationData | VolumetricExaminationData;
+    /** The coupon's verdict on the whole examination (the server's evaluation). */
+    result?: BendResult;
   };
   ranges: QualifiedRangesData;
   rulesVersion: string;

@@ -168,7 +168,7 @@ function bendRows(test: BendExaminationData): Row[] {
 
 function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
   const { visual, test } = d.examination;
-  const rows = test.method === 'bend' ? bendRows(test) : [];
+  const rows = test?.method === 'bend' ? bendRows(test) : [];
   // Keep a short examination (the usual two to six specimens) on one page with its heading.
   l.heading('Examination', Math.min(5 * 14 + (rows.length + 2) * 16 + 24, 300));
   const facts: Array<[string, string]> = [
@@ -176,9 +176,9 @@ function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
     ['Examiner', `${d.coupon.examiner.name}, certificate ${d.coupon.examiner.certificateNumber}`],
   ];
   if (d.coupon.labReportNumber) facts.push(['Lab report', d.coupon.labReportNumber]);
-  if (test.method === 'bend') {
+  if (test?.method === 'bend') {
     facts.push(['Bend tests judged to', `${criteriaName(test.criteria)} acceptance criteria`]);
-  } else {
+  } else if (test) {
     const v: VolumetricExaminationData = test;
     facts.push([
       v.method === 'radiography' ? 'Radiography' : 'Ultrasonic examination',
@@ -187,7 +187,7 @@ function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
     if (v.remarks) facts.push(['Remarks', v.remarks]);
   }
   drawFacts(l, facts);
-  if (test.method === 'bend') {
+  if (test?.method === 'bend') {
     l.gap(6);
     l.table(
       [
@@ -208,7 +208,7 @@ function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
       bold: true,
       color: test.result === 'accept' ? INK : WARN,
     });
-  } else {
+  } else if (test) {
     l.gap(4);
     l.text(`Coupon result: ${RESULT_WORDS[test.result]}`, {
       size: 9.5,
@@ -356,7 +356,10 @@ function drawCaution(l: FlowLayout, d: WpqDocumentData): void {
 export function renderWpqPdf(d: WpqDocumentData): Promise<Buffer> {
   const q = d.qualification;
   // A WPQ says the welder is qualified; it must never be printed for a coupon that did not pass.
-  if (d.examination.visual.result !== 'accept' || d.examination.test.result !== 'accept')
+  if (
+    d.examination.visual.result !== 'accept' ||
+    (d.examination.result ?? d.examination.test?.result) !== 'accept'
+  )
     return Promise.reject(
       new RangeError(
         'A WPQ record is issued only for a coupon that passed the visual examination and its bend or volumetric test',

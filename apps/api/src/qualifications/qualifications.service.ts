@@ -254,36 +254,41 @@ export async function revokeQualification(
 
 function examinationData(c: CouponRecord): WpqDocumentData['examination'] {
   const ex = c.examination;
-  const test: WpqDocumentData['examination']['test'] =
-    ex.method === 'bend'
-      ? {
-          method: 'bend',
-          criteria: ex.criteria,
-          result: ex.specimens.reduce<BendSpecimenData['result']>(
-            (worst, s) =>
-              s.result === 'reject' || worst === 'reject'
-                ? 'reject'
-                : s.result === 'replace-specimen'
-                  ? 'replace-specimen'
-                  : worst,
-            'accept',
-          ),
-          specimens: ex.specimens.map((s) => ({
-            ...(s.label ? { label: s.label } : {}),
-            kind: s.kind,
-            result: s.result,
-            discontinuities: s.discontinuities.map((d) => ({
-              sizeText: d.sizeText,
-              size: d.size,
-              location: d.location,
-              ...(d.type ? { type: d.type } : {}),
-              fusionRelated: d.fusionRelated,
-            })),
-            reasons: s.reasons,
+  const test: WpqDocumentData['examination']['test'] = ex.bend
+    ? {
+        method: 'bend',
+        criteria: c.coupon.code,
+        result: ex.bend.specimens.reduce<BendSpecimenData['result']>(
+          (worst, s) =>
+            s.result === 'reject' || worst === 'reject'
+              ? 'reject'
+              : s.result === 'replace-specimen'
+                ? 'replace-specimen'
+                : worst,
+          'accept',
+        ),
+        specimens: ex.bend.specimens.map((s) => ({
+          ...(s.label ? { label: s.label } : {}),
+          kind: s.kind,
+          result: s.result,
+          discontinuities: s.discontinuities.map((d) => ({
+            sizeText: d.sizeText,
+            size: d.size,
+            location: d.location,
+            ...(d.type ? { type: d.type } : {}),
+            fusionRelated: d.fusionRelated,
           })),
+          reasons: s.reasons,
+        })),
+      }
+    : ex.volumetric
+      ? {
+          method: ex.volumetric.method,
+          result: ex.volumetric.examinerResult ?? (c.result === 'accept' ? 'accept' : 'reject'),
+          reportNumber: ex.volumetric.reportNumber ?? '',
         }
-      : { method: ex.method, result: ex.result, reportNumber: ex.reportNumber };
-  return { visual: { result: c.visual }, test };
+      : undefined;
+  return { visual: { result: c.visual }, result: c.result, ...(test ? { test } : {}) };
 }
 
 export async function wpqPdf(

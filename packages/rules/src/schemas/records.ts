@@ -23,6 +23,7 @@ import {
   nickBreakSpecimenSchema,
   retestSchema,
   visualExaminationSchema,
+  visualFindingSchema,
   volumetricExaminationSchema,
 } from './examination.js';
 import { weldingPositions } from '../ranges/positions.js';
@@ -238,10 +239,12 @@ export const couponRecordInput = z.object({
   pNumbers: z.array(required(12)).max(6).default([]),
   examiner: z.object({ name: required(120), certificateNumber: text(60).default('') }),
   labReportNumber: text(60).default(''),
-  visual: z.enum(['accept', 'reject'], { error: 'Record the visual examination result' }),
-  examination: examinationInput,
+  /** The visual examination ({ result, findings }; 'accept' / 'reject' alone still read). */
+  visual: visualInput,
+  /** Every part of the examination (first-shape bodies read through upgradeExamination). */
+  examination: z.preprocess(upgradeExamination, recordedExaminationSchema),
   /** What the person recording it saw as the verdict; the server recomputes and refuses a mismatch. */
-  claimedResult: z.enum(examinationResults).optional(),
+  claimedResult: z.enum(couponResults).optional(),
   notes: text(2000).default(''),
 });
 export type CouponRecordInput = z.input<typeof couponRecordInput>;
@@ -271,26 +274,10 @@ export const couponRecordSchema = z.object({
   examiner: z.object({ name: z.string(), certificateNumber: z.string() }),
   labReportNumber: z.string(),
   visual: z.enum(['accept', 'reject']),
-  examination: z.discriminatedUnion('method', [
-    z.object({
-      method: z.literal('bend'),
-      criteria: criteriaIdSchema,
-      additionalCriteria: criteriaIdSchema.optional(),
-      specimens: z.array(
-        recordedSpecimenSchema.extend({
-          result: z.enum(examinationResults),
-          reasons: z.array(couponReasonSchema),
-          photo: uploadSchema.nullable(),
-        }),
-      ),
-    }),
-    z.object({
-      method: z.enum(['radiography', 'ultrasonic']),
-      result: z.enum(['accept', 'reject']),
-      reportNumber: z.string(),
-      report: uploadSchema.nullable(),
-    }),
-  ]),
+  /** The visual examination's findings, by type and size. */
+  visualFindings: z.array(visualFindingSchema),
+  /** Every part of the examination as recorded, each bend specimen with its verdict and photo. */
+  examination: examinationRecordSchema,
   /** The server's verdict: visual and examination together. */
   result: z.enum(examinationResults),
   reasons: z.array(couponReasonSchema),

@@ -40,6 +40,7 @@ export const statuses = {
   'coupon.accept': { label: 'Accept', tone: 'good', icon: CheckCircleIcon },
   'coupon.reject': { label: 'Reject', tone: 'bad', icon: BanIcon },
   'coupon.replace-specimen': { label: 'Replace specimen', tone: 'warn', icon: AlertIcon },
+  'coupon.incomplete': { label: 'Incomplete', tone: 'warn', icon: ClockIcon },
   // a WPS in the register
   'procedure.active': { label: 'Active', tone: 'good', icon: CheckCircleIcon },
   'procedure.superseded': { label: 'Superseded', tone: 'neutral', icon: MinusCircleIcon },

@@ -18,9 +18,9 @@ import { ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
 import { useCertifyCoupon } from '@/features/coupons/api/certify-coupon';
 import { couponQueries } from '@/features/coupons/api/coupon-queries';
+import { ExaminationDetails } from '@/features/coupons/components/examination-details';
 import { codeNames } from '@/lib/codes';
 import { qualificationQueries } from '@/features/qualifications/api/qualification-queries';
-import { uploadContentUrl } from '@/lib/uploads';
 import { ApiError } from '@/lib/api-client';
 import { applyApiError, FORM_ERROR } from '@/lib/form-errors';
 import { useUser } from '@/lib/auth';
@@ -105,71 +105,6 @@ function CertifyDialog({ coupon, open, onClose }: { coupon: CouponRecord; open: 
         </DialogActions>
       </form>
     </Dialog>
-  );
-}
-
-function Examination({ coupon }: { coupon: CouponRecord }) {
-  const ex = coupon.examination;
-  if (ex.method !== 'bend') {
-    return (
-      <dl>
-        <Detail label="Method">{ex.method === 'radiography' ? 'Radiography' : 'Ultrasonic examination'}</Detail>
-        <Detail label="Result">
-          <StatusChip status={`coupon.${ex.result}`} />
-        </Detail>
-        <Detail label="Report number">{ex.reportNumber || '—'}</Detail>
-        <Detail label="Report">
-          {ex.report ? (
-            <a className="font-semibold text-accent-700 underline" href={uploadContentUrl(ex.report.id)} download={ex.report.fileName}>
-              {ex.report.fileName}
-            </a>
-          ) : (
-            'None attached'
-          )}
-        </Detail>
-      </dl>
-    );
-  }
-  return (
-    <div className="space-y-3">
-      {ex.specimens.map((s, i) => (
-        <div key={i} className="rounded-md border border-stone-200 p-3">
-          <div className="flex flex-wrap items-center gap-2">
-            <h3 className="font-semibold">{s.label ?? `Specimen ${i + 1}`}</h3>
-            <span className="text-sm text-stone-600">{s.kind} bend</span>
-            <StatusChip status={`coupon.${s.result}`} />
-          </div>
-          <div className="mt-2 flex flex-wrap gap-4">
-            {s.photo && (
-              <a href={uploadContentUrl(s.photo.id, true)} target="_blank" rel="noreferrer">
-                <img src={uploadContentUrl(s.photo.id, true)} alt={`Photo of ${s.label ?? `specimen ${i + 1}`}`} className="h-24 w-32 rounded object-cover ring-1 ring-stone-200" />
-              </a>
-            )}
-            <div className="min-w-0 flex-1 text-sm">
-              {s.discontinuities.length === 0 ? (
-                <p className="text-stone-600">No discontinuities recorded.</p>
-              ) : (
-                <ul className="list-disc pl-5">
-                  {s.discontinuities.map((d, j) => (
-                    <li key={j}>
-                      {formatLengthBoth(d.size)}
-                      {d.sizeText.replace(/\s+/g, '') !== formatLengthBoth(d.size).split(' (')[0]?.replace(/\s+/g, '') ? ` (typed “${d.sizeText}”)` : ''} · {d.location}
-                      {d.type ? ` · ${d.type.replace(/-/g, ' ')}` : ''}
-                      {d.fusionRelated ? ' · fusion cause visible' : ''}
-                    </li>
-                  ))}
-                </ul>
-              )}
-              {s.reasons.map((r, k) => (
-                <p key={k} className="mt-1 text-red-800">
-                  {r.message} <span className="rounded bg-red-50 px-1 text-xs font-semibold">{r.clause}</span>
-                </p>
-              ))}
-            </div>
-          </div>
-        </div>
-      ))}
-    </div>
   );
 }
 
@@ -275,7 +210,7 @@ export default function CouponRoute() {
           </Card>
           <Card className="p-4">
             <h2 className="mb-2 font-bold">Examination</h2>
-            <Examination coupon={c} />
+            <ExaminationDetails coupon={c} />
           </Card>
         </div>
         <div className="space-y-4">
@@ -294,10 +229,11 @@ export default function CouponRoute() {
                   ))}
                 </ul>
               ) : (
-                <p className="mt-2 text-sm text-stone-700">No discontinuity exceeded the criteria.</p>
+                <p className="mt-2 text-sm text-stone-700">Every part of the examination met the criteria.</p>
               )}
               <p className="mt-2 text-xs text-stone-600">
-                Criteria set: {c.criteriaId ?? 'the examination report'} · rules version {c.rulesVersion}
+                Judged by {c.evaluation ? `${c.evaluation.codeCriteria.name} (${c.evaluation.codeCriteria.clause})` : `${codeNames[c.coupon.code]} criteria`}
+                {c.evaluation?.additionalCriteria ? `, and in addition ${c.evaluation.additionalCriteria.name}` : ''} · rules version {c.rulesVersion}
               </p>
               <p className="mt-1 text-xs text-stone-500">{STORED_CAUTION}</p>
             </section>

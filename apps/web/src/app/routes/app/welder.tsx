@@ -104,13 +104,14 @@ function WelderQualifications({ welderId, isQa }: { welderId: string; isQa: bool
 }
 
 function uploadsOf(coupons: CouponRecord[]): Array<{ upload: Upload; what: string; couponId: string }> {
-  return coupons.flatMap((c) => {
-    if (c.examination.method !== 'bend')
-      return c.examination.report ? [{ upload: c.examination.report, what: `Examination report, coupon of ${c.testedOn}`, couponId: c.id }] : [];
-    return c.examination.specimens.flatMap((s, i) =>
+  return coupons.flatMap((c) => [
+    ...(c.examination.volumetric?.report
+      ? [{ upload: c.examination.volumetric.report, what: `Examination report, coupon of ${c.testedOn}`, couponId: c.id }]
+      : []),
+    ...(c.examination.bend?.specimens ?? []).flatMap((s, i) =>
       s.photo ? [{ upload: s.photo, what: `Photo of ${s.label ?? `specimen ${i + 1}`}, coupon of ${c.testedOn}`, couponId: c.id }] : [],
-    );
-  });
+    ),
+  ]);
 }
 
 function WelderCoupons({ welder, isQa }: { welder: Welder; isQa: boolean }) {

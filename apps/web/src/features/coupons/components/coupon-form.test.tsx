@@ -1,6 +1,6 @@
 // The coupon form's live computation in the browser: lengths read as typed, pipe OD and wall from NPS and
 // schedule, and the verdict panel following the discontinuities. Pure rules; no server is involved.
-import type { Procedure, Welder } from '@beadroll/rules';
+import type { Procedure, RecordedExaminationInput, Welder } from '@beadroll/rules';
 import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { render, screen, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
@@ -84,13 +84,13 @@ describe('the live verdict', () => {
   it('says what is missing instead of a verdict while a size does not read, and sends the live verdict as claimedResult', () => {
     const unreadable = analyseDraft(draftWith(['1/16', '3/']));
     expect(unreadable.verdict).toBeNull();
-    expect(unreadable.errors['examination.specimens.0.discontinuities.1.sizeText']).toMatch(/"3\/" is not a length/);
+    expect(unreadable.errors['examination.bend.specimens.0.discontinuities.1.sizeText']).toMatch(/"3\/" is not a length/);
 
     const d = draftWith(['1/16', '1/32', '3/16']);
     const { input, errors } = toRecordInput(d, analyseDraft(d));
     expect(errors).toEqual({});
     expect(input?.claimedResult).toBe('reject');
-    const sent = input?.examination.method === 'bend' ? input.examination.specimens[0]?.discontinuities?.[2] : undefined;
+    const sent = (input?.examination as RecordedExaminationInput | undefined)?.bend?.specimens[0]?.discontinuities?.[2];
     expect(sent).toMatchObject({ sizeText: '3/16', size: { value: 0.1875, unit: 'in' }, location: 'surface' });
   });
 
@@ -245,7 +245,7 @@ describe('implausible sizes (common practice (no source): typing slips, refused 
   it('reads the same bounds in the model the form sends: a zero-size discontinuity has no verdict and is named', () => {
     const a = analyseDraft(draftWith(['0']));
     expect(a.verdict).toBeNull();
-    expect(a.errors['examination.specimens.0.discontinuities.0.sizeText']).toMatch(/A discontinuity of 0 in is not a plausible size/);
+    expect(a.errors['examination.bend.specimens.0.discontinuities.0.sizeText']).toMatch(/A discontinuity of 0 in is not a plausible size/);
   });
 });
 
@@ -319,6 +319,6 @@ describe('the coupon form offers what fits the coupon', { timeout: 30_000 }, () 
     expect(a.notExamined).toBe(true);
     const { input, errors } = toRecordInput(d, a);
     expect(input).toBeNull();
-    expect(errors['examination.specimens.1.examined']).toBe('Mark Specimen 2 (side) examined, or remove it');
+    expect(errors['examination.bend.specimens.1.examined']).toBe('Mark Specimen 2 (side) examined, or remove it');
   });
 });

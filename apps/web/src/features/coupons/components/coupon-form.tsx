@@ -67,13 +67,13 @@ const FIELD_WORDS: Record<string, string> = {
   'pipe.schedule': 'Schedule',
   'examiner.name': 'Examiner',
   visual: 'Visual examination',
-  'examination.result': 'Examination result',
-  'examination.specimens': 'Bend specimens',
+  'examination.volumetric.examinerResult': 'Examination result',
+  'examination.bend.specimens': 'Bend specimens',
   claimedResult: 'Verdict',
 };
 
 function fieldWords(key: string): string {
-  const specimen = /^examination\.specimens\.(\d+)(?:\.discontinuities\.(\d+))?/.exec(key);
+  const specimen = /^examination\.bend\.specimens\.(\d+)(?:\.discontinuities\.(\d+))?/.exec(key);
   if (specimen) return `Specimen ${Number(specimen[1]) + 1}${specimen[2] !== undefined ? `, discontinuity ${Number(specimen[2]) + 1}` : ''}`;
   const direct = Object.keys(FIELD_WORDS).find((k) => key === k || key.startsWith(`${k}.`));
   return direct ? (FIELD_WORDS[direct] ?? key) : key;
@@ -357,7 +357,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
                   {analysis.proposal.known && (
                     <div className="mt-2 flex flex-wrap gap-2">
                       {analysis.proposal.options.map((set) => (
-                        <Button key={setLabel(set)} size="row" onClick={() => setSpecimens(specimensOf(set), 'examination.specimens')}>
+                        <Button key={setLabel(set)} size="row" onClick={() => setSpecimens(specimensOf(set), 'examination.bend.specimens')}>
                           Use {setLabel(set)}
                         </Button>
                       ))}
@@ -370,8 +370,9 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
                   {analysis.proposal ? 'Add the specimens the code asks for.' : 'Enter the code, position and thickness for the proposed specimens, or add them yourself.'}
                 </p>
               )}
-              {errorFor(errors, 'examination.specimens') && !/\.\d+/.test(Object.keys(errors).find((k) => k.startsWith('examination.specimens')) ?? '') && (
-                <p className="text-sm text-red-700">{errorFor(errors, 'examination.specimens')}</p>
+              {errors['examination.bend'] && <p className="text-sm text-red-700">{errors['examination.bend']}</p>}
+              {errorFor(errors, 'examination.bend.specimens') && !/\.\d+/.test(Object.keys(errors).find((k) => k.startsWith('examination.bend.specimens')) ?? '') && (
+                <p className="text-sm text-red-700">{errorFor(errors, 'examination.bend.specimens')}</p>
               )}
               {draft.specimens.map((s, i) => (
                 <SpecimenEditor
@@ -381,13 +382,13 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
                   errors={errors}
                   focusKey={focusKey}
                   onAdded={setFocusKey}
-                  onChange={(next, path) => setSpecimens(draft.specimens.map((x, k) => (k === i ? next : x)), path ?? `examination.specimens.${i}`)}
-                  onRemove={() => setSpecimens(draft.specimens.filter((_, k) => k !== i), 'examination.specimens')}
+                  onChange={(next, path) => setSpecimens(draft.specimens.map((x, k) => (k === i ? next : x)), path ?? `examination.bend.specimens.${i}`)}
+                  onRemove={() => setSpecimens(draft.specimens.filter((_, k) => k !== i), 'examination.bend.specimens')}
                 />
               ))}
               <div className="flex flex-wrap gap-2">
                 {(['face', 'root', 'side'] as const).map((kind) => (
-                  <Button key={kind} onClick={() => setSpecimens([...draft.specimens, newSpecimen(kind)], 'examination.specimens')}>
+                  <Button key={kind} onClick={() => setSpecimens([...draft.specimens, newSpecimen(kind)], 'examination.bend.specimens')}>
                     <PlusIcon /> Add a {kind} bend
                   </Button>
                 ))}
@@ -395,14 +396,14 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
             </div>
           ) : (
             <div className="mt-4 grid gap-3 sm:grid-cols-2">
-              <SelectField label={`${draft.method === 'radiography' ? 'Radiography' : 'Ultrasonic'} result`} value={draft.volumetricResult} error={errorFor(errors, 'examination.result')} onChange={(e) => change({ volumetricResult: e.target.value as CouponDraft['volumetricResult'] }, 'examination.result', 'claimedResult')}>
+              <SelectField label={`${draft.method === 'radiography' ? 'Radiography' : 'Ultrasonic'} result`} value={draft.volumetricResult} error={errorFor(errors, 'examination.volumetric.examinerResult')} onChange={(e) => change({ volumetricResult: e.target.value as CouponDraft['volumetricResult'] }, 'examination.volumetric.examinerResult', 'claimedResult')}>
                 <option value="">Choose…</option>
                 <option value="accept">Accept</option>
                 <option value="reject">Reject</option>
               </SelectField>
-              <TextField label="Examination report number" value={draft.reportNumber} error={errorFor(errors, 'examination.reportNumber')} onChange={(e) => change({ reportNumber: e.target.value }, 'examination.reportNumber')} />
+              <TextField label="Examination report number" value={draft.reportNumber} error={errorFor(errors, 'examination.volumetric.reportNumber')} onChange={(e) => change({ reportNumber: e.target.value }, 'examination.volumetric.reportNumber')} />
               <div className="sm:col-span-2">
-                <UploadInput label="Examination report" kind="examination-report" value={draft.report} error={errorFor(errors, 'examination.reportUploadId')} onChange={(report) => change({ report }, 'examination.reportUploadId')} hint="PDF or image, up to 15 MB." />
+                <UploadInput label="Examination report" kind="examination-report" value={draft.report} error={errorFor(errors, 'examination.volumetric.reportUploadId')} onChange={(report) => change({ report }, 'examination.volumetric.reportUploadId')} hint="PDF or image, up to 15 MB." />
               </div>
             </div>
           )}

@@ -47,7 +47,7 @@ export function SpecimenEditor({
   onAdded,
 }: SpecimenEditorProps) {
   const name = specimenLabel(specimen, index);
-  const at = `examination.specimens.${index}`;
+  const at = `examination.bend.specimens.${index}`;
   const setDisc = (j: number, change: Partial<DiscontinuityDraft>) =>
     onChange(
       {

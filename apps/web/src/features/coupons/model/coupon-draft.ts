@@ -2,7 +2,7 @@
 // lengths read from what was typed, the pipe's OD and wall from NPS and schedule, the proposed bend
 // specimens, the live verdict (evaluateBendTest, the same rules the server runs) and the qualified
 // ranges preview. Pure functions, so the component tests and the form agree on every answer.
-// Error keys are the API's dotted paths (coupon.thickness, examination.specimens.0.discontinuities.1.size),
+// Error keys are the API's dotted paths (coupon.thickness, examination.bend.specimens.0.discontinuities.1.size),
 // so a 400 from the server lands on the same fields as the live checks.
 import { codeNames } from '@/lib/codes';
 import { firstMessage, readLength, type LengthRead } from '@/lib/lengths';
@@ -385,7 +385,7 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
         if (read?.ok) sizes[disc.key] = read.length;
         else {
           readable = false;
-          if (read && !read.ok) errors[`examination.specimens.${i}.discontinuities.${j}.sizeText`] = read.error;
+          if (read && !read.ok) errors[`examination.bend.specimens.${i}.discontinuities.${j}.sizeText`] = read.error;
           incomplete ??= `${specimenLabel(s, i)}, discontinuity ${j + 1}: ${read ? 'the size does not read as a length' : 'enter its size'}.`;
         }
       }),
@@ -495,12 +495,12 @@ export function toRecordInput(d: CouponDraft, a: DraftAnalysis): { input: Coupon
   const errors: Errors = { ...a.errors };
   if (d.method === 'bend' && d.visual !== 'reject')
     d.specimens.forEach((s, i) => {
-      if (!s.examined) errors[`examination.specimens.${i}.examined`] = `Mark ${specimenLabel(s, i)} examined, or remove it`;
+      if (!s.examined) errors[`examination.bend.specimens.${i}.examined`] = `Mark ${specimenLabel(s, i)} examined, or remove it`;
     });
   if (d.method === 'bend')
     d.specimens.forEach((s, i) =>
       s.discontinuities.forEach((disc, j) => {
-        if (disc.sizeText.trim() === '') errors[`examination.specimens.${i}.discontinuities.${j}.sizeText`] = 'Enter the size, or remove this discontinuity';
+        if (disc.sizeText.trim() === '') errors[`examination.bend.specimens.${i}.discontinuities.${j}.sizeText`] = 'Enter the size, or remove this discontinuity';
       }),
     );
   for (const m of a.missing) {
@@ -546,29 +546,33 @@ export function toRecordInput(d: CouponDraft, a: DraftAnalysis): { input: Coupon
     examination:
       d.method === 'bend'
         ? {
-            method: 'bend' as const,
             criteria: d.criteria,
-            specimens: d.specimens.map((s, i) => ({
-              label: specimenLabel(s, i),
-              kind: s.kind,
-              photoUploadId: s.photo?.id ?? null,
-              discontinuities: s.discontinuities.map((disc) => {
-                const size = a.sizes[disc.key];
-                return {
-                  sizeText: disc.sizeText.trim(),
-                  size: size ? plain(size) : undefined,
-                  location: disc.location,
-                  fusionRelated: disc.fusionRelated,
-                  ...(disc.type ? { type: disc.type } : {}),
-                };
-              }),
-            })),
+            bend: {
+              specimens: d.specimens.map((s, i) => ({
+                label: specimenLabel(s, i),
+                kind: s.kind,
+                photoUploadId: s.photo?.id ?? null,
+                discontinuities: s.discontinuities.map((disc) => {
+                  const size = a.sizes[disc.key];
+                  return {
+                    sizeText: disc.sizeText.trim(),
+                    size: size ? plain(size) : undefined,
+                    location: disc.location,
+                    fusionRelated: disc.fusionRelated,
+                    ...(disc.type ? { type: disc.type } : {}),
+                  };
+                }),
+              })),
+            },
           }
         : {
-            method: d.method,
-            result: d.volumetricResult || undefined,
-            reportNumber: d.reportNumber,
-            reportUploadId: d.report?.id ?? null,
+            volumetric: {
+              method: d.method,
+              indications: [],
+              examinerResult: d.volumetricResult || undefined,
+              ...(d.reportNumber.trim() ? { reportNumber: d.reportNumber.trim() } : {}),
+              reportUploadId: d.report?.id ?? null,
+            },
           },
     ...(a.verdict ? { claimedResult: a.verdict } : {}),
     notes: d.notes,
