@@ -33,7 +33,15 @@ export {
   type LengthUnit,
   type ParsedLength,
 } from './units/length.js';
-export { b3610mPipeSizes, pipeSchedules, type PipeSchedule, type PipeSizeRow } from './pipes/b36-10m.js';
+export {
+  b3610mPipeSizes,
+  b3619mPipeSizes,
+  pipeSchedules,
+  pipeStandardOf,
+  stainlessPipeSchedules,
+  type PipeSchedule,
+  type PipeSizeRow,
+} from './pipes/b36-10m.js';
 export { normalizeNps, normalizeSchedule, pipeDimensions } from './pipes/pipe-dimensions.js';
 
 // bend tests

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { RulesInputError } from '../validation/rules-input-error.js';
-import { b3610mPipeSizes, pipeSchedules } from './b36-10m.js';
+import { b3610mPipeSizes, b3619mPipeSizes, pipeSchedules, pipeStandardOf } from './b36-10m.js';
 import { normalizeNps, pipeDimensions } from './pipe-dimensions.js';
 
 const inch = (value: number) => ({ value, unit: 'in' });
@@ -60,7 +60,7 @@ describe('pipeDimensions', () => {
     for (const row of b3610mPipeSizes) {
       expect(row.od).toBeGreaterThan(lastOd);
       lastOd = row.od;
-      const numbered = (['40', '80', '120', '160'] as const)
+      const numbered = (['10', '20', '30', '40', '60', '80', '100', '120', '140', '160'] as const)
         .map((s) => row.walls[s])
         .filter((w) => w !== undefined);
       expect([...numbered].sort((a, b) => a - b)).toEqual(numbered);
@@ -69,30 +69,98 @@ describe('pipeDimensions', () => {
     }
   });
 
-  it('covers NPS 1/2 through 24 with every listed size', () => {
-    expect(b3610mPipeSizes.map((r) => r.nps)).toEqual([
-      '1/2',
-      '3/4',
-      '1',
-      '1-1/4',
-      '1-1/2',
-      '2',
-      '2-1/2',
-      '3',
-      '3-1/2',
-      '4',
-      '5',
-      '6',
-      '8',
-      '10',
-      '12',
-      '14',
-      '16',
-      '18',
-      '20',
-      '22',
-      '24',
-    ]);
+  it('covers NPS 1/2 through 48 with every listed size', () => {
+    expect(b3610mPipeSizes.map((r) => r.nps)).toEqual(
+      [
+        '1/2',
+        '3/4',
+        '1',
+        '1-1/4',
+        '1-1/2',
+        '2',
+        '2-1/2',
+        '3',
+        '3-1/2',
+        '4',
+        '5',
+        '6',
+        '8',
+        '10',
+        '12',
+      ].concat([
+        '14',
+        '16',
+        '18',
+        '20',
+        '22',
+        '24',
+        '26',
+        '28',
+        '30',
+        '32',
+        '34',
+        '36',
+        '38',
+        '40',
+        '42',
+        '44',
+        '46',
+        '48',
+      ]),
+    );
+  });
+
+  it.each([
+    ['8', '20', 8.625, 0.25],
+    ['8', '30', 8.625, 0.277],
+    ['8', '60', 8.625, 0.406],
+    ['8', '100', 8.625, 0.594],
+    ['8', '140', 8.625, 0.812],
+    ['12', '30', 12.75, 0.33],
+    ['14', '10', 14.0, 0.25],
+    ['16', '60', 16.0, 0.656],
+    ['20', '100', 20.0, 1.281],
+    ['24', '140', 24.0, 2.062],
+    ['2', '10', 2.375, 0.109],
+    ['30', '10', 30.0, 0.312],
+    ['36', '20', 36.0, 0.5],
+    ['48', 'STD', 48.0, 0.375],
+    ['48', 'XS', 48.0, 0.5],
+  ])('from memory: ASME B36.10M table 1 — NPS %s Sch %s is %d in OD, %d in wall', (nps, sch, od, wall) => {
+    expect(pipeDimensions(nps, sch)).toEqual({ outsideDiameter: inch(od), wall: inch(wall) });
+  });
+
+  it.each([
+    ['1/2', '5S', 0.84, 0.065],
+    ['2', '10S', 2.375, 0.109],
+    ['4', '5S', 4.5, 0.083],
+    ['6', '40S', 6.625, 0.28],
+    ['6', '80S', 6.625, 0.432],
+    ['12', '80S', 12.75, 0.5],
+    ['14', '10S', 14.0, 0.188],
+    ['30', '10S', 30.0, 0.312],
+  ])('from memory: ASME B36.19M table 1 — NPS %s Sch %s is %d in OD, %d in wall', (nps, sch, od, wall) => {
+    expect(pipeDimensions(nps, sch)).toEqual({ outsideDiameter: inch(od), wall: inch(wall) });
+  });
+
+  it('from memory: ASME B36.19M — 5S < 10S < 40S < 80S; 40S is the STD wall and 80S the XS wall of B36.10M; same OD', () => {
+    for (const row of b3619mPipeSizes) {
+      const carbon = b3610mPipeSizes.find((r) => r.nps === row.nps);
+      expect(carbon?.od, row.nps).toBe(row.od);
+      const walls = (['5S', '10S', '40S', '80S'] as const)
+        .map((s) => row.walls[s])
+        .filter((w) => w !== undefined);
+      expect([...walls].sort((a, b) => a - b)).toEqual(walls);
+      if (row.walls['40S'] !== undefined) expect(row.walls['40S']).toBe(carbon?.walls.STD);
+      if (row.walls['80S'] !== undefined) expect(row.walls['80S']).toBe(carbon?.walls.XS);
+    }
+  });
+
+  it('names the standard of a schedule', () => {
+    expect(pipeStandardOf('10S')).toBe('ASME B36.19M');
+    expect(pipeStandardOf('10')).toBe('ASME B36.10M');
+    expect(pipeStandardOf('XS')).toBe('ASME B36.10M');
+    expect(pipeStandardOf('XXS')).toBe('ASME B36.10M');
   });
 
   it('accepts the ways sizes and schedules are written', () => {
@@ -100,11 +168,16 @@ describe('pipeDimensions', () => {
     expect(pipeDimensions('1.25', 'Sch80')).toEqual(pipeDimensions('1-1/4', '80'));
     expect(pipeDimensions('NPS 2', 'std')).toEqual(pipeDimensions('2', 'STD'));
     expect(pipeDimensions('0.5', 'xxs')).toEqual(pipeDimensions('1/2', 'XXS'));
+    expect(pipeDimensions('2', '10s')).toEqual(pipeDimensions('2', '10S'));
+    expect(pipeDimensions('2', 'Sch 10 S')).toEqual(pipeDimensions('2', '10S'));
   });
 
   it.each([
     ['7', '40', 'nps'],
-    ['26', '40', 'nps'],
+    ['50', '40', 'nps'],
+    ['26', '40', 'schedule'],
+    ['14', '40S', 'schedule'],
+    ['26', '10S', 'schedule'],
     ['1/4', '40', 'nps'],
     ['', '40', 'nps'],
     ['2', '60', 'schedule'],
@@ -125,7 +198,7 @@ describe('pipeDimensions', () => {
 
   it('says which schedules a size has when one is missing', () => {
     expect(() => pipeDimensions('2', '120')).toThrow(
-      /no schedule 120 for NPS 2 \(it has 40, 80, 160, STD, XS, XXS\)/,
+      /ASME B36.10M defines no schedule 120 for NPS 2 that Beadroll lists \(it has 10, 40, STD, 80, XS, 160, XXS\)/,
     );
   });
 });
