@@ -1,6 +1,7 @@
 // The bend specimens a coupon calls for, so the coupon form can propose the right set (TRADE.md §2).
 import { bendSpecimenProposalInputSchema, type BendSpecimenProposalInput } from '../schemas/coupon.js';
 import { type CodeId } from '../schemas/common.js';
+import { codeNames } from '../names/display-names.js';
 import { isFilletTest, splitTestPosition, type TestPosition } from '../ranges/positions.js';
 import { exceeds, formatLength, limitIn, type DualSize, type Length } from '../units/length.js';
 import { parseInput } from '../validation/parse-input.js';
@@ -168,7 +169,7 @@ const unknown = (code: CodeId): BendSpecimenProposal => ({
   options: [],
   clause: null,
   source: 'not in Beadroll rules',
-  text: `Beadroll has no bend specimen table for ${code}: take the number and kind of specimens from the code.`,
+  text: `Beadroll has no bend specimen table for ${codeNames[code]}: take the number and kind of specimens from the code.`,
 });
 
 /** The bend specimens to propose for a groove coupon; `known: false` where Beadroll has no table. */

@@ -217,6 +217,37 @@ describe('jointWithin worked examples', () => {
     expect(v.reasons[0]).toMatchObject({ variable: 'position', clause: 'QW-461.9' });
   });
 
+  it('from memory: QW-404.14 — autogenous GTAW qualifies welding without filler metal only, and a filler test does not qualify autogenous welding', () => {
+    const joint = {
+      form: 'plate',
+      weld: 'groove',
+      position: 'F',
+      thickness: inch(0.1),
+      backing: true,
+    } as const;
+    const auto = qualifiedRanges({
+      ...COUPONS['asme-ix'].plate!,
+      process: 'GTAW',
+      fNumber: undefined,
+      withoutFiller: true,
+      thickness: inch(0.125),
+    });
+    expect(jointWithin(auto, { ...joint, withoutFiller: true }).within).toBe(true);
+    const filler = jointWithin(auto, { ...joint, fNumber: 6 });
+    expect(filler.within).toBe(false);
+    expect(filler.reasons[0]).toMatchObject({ variable: 'fNumber', clause: 'QW-404.14' });
+    expect(filler.reasons[0]?.message).toMatch(/without filler metal only/);
+    const withFiller = qualifiedRanges({
+      ...COUPONS['asme-ix'].plate!,
+      process: 'GTAW',
+      fNumber: 6,
+      thickness: inch(0.125),
+    });
+    const autoJoint = jointWithin(withFiller, { ...joint, withoutFiller: true });
+    expect(autoJoint.within).toBe(false);
+    expect(autoJoint.reasons[0]).toMatchObject({ variable: 'fNumber', clause: 'QW-404.14' });
+  });
+
   it('from memory: QW-452.1(b) — groove thickness up to 2t; QW-303.1 — fillets any thickness', () => {
     const over = jointWithin(asme, {
       form: 'plate',

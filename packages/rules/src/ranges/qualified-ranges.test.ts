@@ -393,6 +393,25 @@ describe('other essential variables (TRADE.md §5)', () => {
     ]);
   });
 
+  it('from memory: ASME IX QW-404.14 — the limit says "without filler metal only" in words, and a filler test does not qualify autogenous welding', () => {
+    const auto = qualifiedRanges(plate({ process: 'GTAW', fNumber: undefined, withoutFiller: true }));
+    expect(auto.limits.find((l) => l.variable === 'fNumber')?.text).toMatch(/without filler metal only/);
+    const withFiller = qualifiedRanges(plate({ process: 'GTAW', fNumber: 6 }));
+    expect(withFiller.withoutFillerOnly).toBe(false);
+    expect(withFiller.fNumbers).toEqual([6]);
+  });
+
+  it.each(['asme-ix', 'aws-d1.1'] as const)(
+    'from memory: QW-461.9 / AWS D1.1 Table 4.10 (2015) — %s 2FR (pipe rotated, horizontal fillet) qualifies fillet welds F and H only; it is no plate position',
+    (code) => {
+      const r = qualifiedRanges(pipe({ code, weld: 'fillet', position: '2FR' }));
+      expect(r.positions).toEqual({ groove: [], fillet: ['F', 'H'] });
+      expect(fieldOf(() => qualifiedRanges(plate({ code, weld: 'fillet', position: '2FR' })))).toEqual([
+        'position',
+      ]);
+    },
+  );
+
   it('from memory: ASME QW-405.3; API 1104 — uphill and downhill qualify separately; vertical tests must say which', () => {
     expect(qualifiedRanges(plate({ position: '3G', progression: 'downhill' })).progression).toEqual([
       'downhill',

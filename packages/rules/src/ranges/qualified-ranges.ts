@@ -8,6 +8,7 @@ import {
   type TransferMode,
 } from '../schemas/coupon.js';
 import { type CodeId } from '../schemas/common.js';
+import { codeNames } from '../names/display-names.js';
 import { parseInput } from '../validation/parse-input.js';
 import { RulesInputError } from '../validation/rules-input-error.js';
 import {
@@ -111,13 +112,19 @@ function computePositions(c: Coupon): PositionsResult {
   const tables = set.byProgression && c.progression ? set.byProgression[c.progression] : set;
   const table = tables[c.form];
   if (Object.keys(table).length === 0)
-    throw RulesInputError.field('form', `${c.code} welder qualification tests are not welded on ${c.form}`);
+    throw RulesInputError.field(
+      'form',
+      `${codeNames[c.code]} welder qualification tests are not welded on ${c.form}`,
+    );
   const groove = new Set<WeldingPosition>();
   const fillet = new Set<WeldingPosition>();
   for (const part of splitTestPosition(c.position)) {
     const row: PositionRow | undefined = table[part];
     if (!row)
-      throw RulesInputError.field('position', `${part} is not a ${c.form} test position under ${c.code}`);
+      throw RulesInputError.field(
+        'position',
+        `${part} is not a ${c.form} test position under ${codeNames[c.code]}`,
+      );
     row.groove.forEach((p) => groove.add(p));
     row.fillet.forEach((p) => fillet.add(p));
   }

@@ -54,7 +54,10 @@ export const searchQuerySchema = textSchema({ max: 100 }).optional();
 // so a typing slip (or 1e308) is refused on its field and never reaches a computed range.
 
 export const MAX_LENGTH_MM = 6000;
-const MAX_LENGTH: Record<(typeof lengthUnits)[number], number> = { mm: MAX_LENGTH_MM, in: MAX_LENGTH_MM / 25.4 };
+const MAX_LENGTH: Record<(typeof lengthUnits)[number], number> = {
+  mm: MAX_LENGTH_MM,
+  in: MAX_LENGTH_MM / 25.4,
+};
 
 function boundedLength<T extends { value: number; unit: (typeof lengthUnits)[number] }>(
   v: T,
@@ -87,13 +90,13 @@ export const positiveLengthSchema = z
 
 export const codeIds = ['asme-ix', 'aws-d1.1', 'api-1104', 'iso-9606-1'] as const;
 export const codeIdSchema = z.enum(codeIds, {
-  error: 'Choose one of asme-ix, aws-d1.1, api-1104, iso-9606-1',
+  error: 'Choose one of ASME IX, AWS D1.1, API 1104, ISO 9606-1',
 });
 export type CodeId = (typeof codeIds)[number];
 
 export const criteriaIds = [...codeIds, 'shop-general'] as const;
 export const criteriaIdSchema = z.enum(criteriaIds, {
-  error: `Choose one of ${criteriaIds.join(', ')}`,
+  error: 'Choose one of ASME IX, AWS D1.1, API 1104, ISO 9606-1 or shop practice (in-house)',
 });
 export type CriteriaId = (typeof criteriaIds)[number];
 
@@ -117,15 +120,30 @@ export interface LengthBounds {
 // 0.5 mm; the thickest test plates and walls a few inches; coupon pipe runs from small tube to NPS 48
 // and shells beyond it. The bounds refuse typing slips (99999999, 1e20, 0), not unusual work.
 export const lengthBounds = {
-  thickness: { what: 'The coupon thickness', min: { in: 0.01, mm: 0.25 }, max: { in: 12, mm: 300 }, minInclusive: true },
+  thickness: {
+    what: 'The coupon thickness',
+    min: { in: 0.01, mm: 0.25 },
+    max: { in: 12, mm: 300 },
+    minInclusive: true,
+  },
   depositedThickness: {
     what: 'The deposited weld metal thickness',
     min: { in: 0.01, mm: 0.25 },
     max: { in: 12, mm: 300 },
     minInclusive: true,
   },
-  outsideDiameter: { what: 'The outside diameter', min: { in: 0.25, mm: 6 }, max: { in: 240, mm: 6000 }, minInclusive: true },
-  discontinuity: { what: 'A discontinuity', min: { in: 0, mm: 0 }, max: { in: 12, mm: 300 }, minInclusive: false },
+  outsideDiameter: {
+    what: 'The outside diameter',
+    min: { in: 0.25, mm: 6 },
+    max: { in: 240, mm: 6000 },
+    minInclusive: true,
+  },
+  discontinuity: {
+    what: 'A discontinuity',
+    min: { in: 0, mm: 0 },
+    max: { in: 12, mm: 300 },
+    minInclusive: false,
+  },
 } as const satisfies Record<string, LengthBounds>;
 
 const boundText = (v: number, unit: 'in' | 'mm'): string =>

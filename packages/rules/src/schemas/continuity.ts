@@ -35,7 +35,8 @@ export const continuityProfileIds = [
 ] as const;
 export type ContinuityProfileId = (typeof continuityProfileIds)[number];
 export const continuityProfileIdSchema = z.enum(continuityProfileIds, {
-  error: `Choose one of ${continuityProfileIds.join(', ')}`,
+  error:
+    'Choose a continuity profile: ASME IX, AWS D1.1, 49 CFR 192.229(b), (c) or (d), 49 CFR 195.222(b), or ISO 9606-1 9.3 a), b) or c)',
 });
 
 /** What a dated piece of continuity evidence is:
