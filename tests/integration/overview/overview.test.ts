@@ -2,8 +2,9 @@
 // QA manager (every shop) and a foreman (their shops), against the real PostgreSQL.
 import { addDays, format, startOfWeek } from 'date-fns';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { overviewSchema } from '@beadroll/rules';
+import { lapseWatchRunListSchema, overviewSchema } from '@beadroll/rules';
 import { bodyOf, errorOf, signIn, startTestApi, type TestApi } from '../../support/api-app.js';
+import { QueryLog } from '../../support/api-query-log.js';
 import { TEST_PASSWORD } from '../../support/factories.js';
 import { makeFlaggedEntry, makeLapseWorld, makeQualification } from '../lapse-watch/lapse-factories.js';
 
@@ -15,8 +16,9 @@ const weekOf = (n: number) => day(startOfWeek(addDays(today, n), { weekStartsOn:
 
 describe('GET /api/overview', () => {
   let api: TestApi;
+  const log = new QueryLog();
   beforeAll(async () => {
-    api = await startTestApi();
+    api = await startTestApi({ dataSourceOptions: { logger: log } });
   });
   afterAll(() => api.close());
 
@@ -103,6 +105,23 @@ describe('GET /api/overview', () => {
       ['AA', 2, 0],
       ['BB', 3, 0],
     ]);
+  });
+
+  it('answers in one query after the session lookup, with the latest lapse-watch run as the run list shows it', async () => {
+    const w = await scenario();
+    const qa = await signIn(api.app, w.qa.email, TEST_PASSWORD);
+    expect((await qa.post('/api/lapse-watch/runs').send({})).status).toBe(201);
+    const runs = bodyOf(lapseWatchRunListSchema, await qa.get('/api/lapse-watch/runs'));
+    log.clear();
+    const o = bodyOf(overviewSchema, await qa.get('/api/overview'));
+    expect(log.queries.filter((q) => /^\s*(SELECT|WITH)/i.test(q))).toHaveLength(2);
+    expect(o.latestRun).toEqual(runs.items[0]);
+    expect(o.reviewQueue).toBe(2);
+    expect(o.failedDeliveries).toBe(0);
+    const foreman = await signIn(api.app, w.foreman.email, TEST_PASSWORD);
+    log.clear();
+    bodyOf(overviewSchema, await foreman.get('/api/overview'));
+    expect(log.queries.filter((q) => /^\s*(SELECT|WITH)/i.test(q))).toHaveLength(2);
   });
 
   it('is refused to a welder (403) and shows nothing of another company', async () => {

@@ -4,6 +4,7 @@ import type { Role } from '@beadroll/rules';
 import type { Actor } from '../lib/scope.js';
 import type { TokenPurpose } from './auth-token.entity.js';
 import { AuthTokenEntity } from './auth-token.entity.js';
+import { preparedQuery } from '../lib/prepared.js';
 
 export interface SignInRow {
   id: string;
@@ -147,7 +148,9 @@ const TOUCH_AFTER_MS = 5 * 60 * 1000;
  * last recorded use is older than five minutes, one UPDATE follows without holding up the request.
  */
 export async function loadSessionActor(db: EntityManager, sessionId: string, now: Date): Promise<Actor | null> {
-  const rows: (Actor & { lastSeenAt: Date })[] = await db.query(
+  // Every request runs this: a prepared statement, planned once per connection (lib/prepared.ts).
+  const rows = await preparedQuery<Actor & { lastSeenAt: Date }>(
+    db,
     `SELECT u.id, u.organization_id AS "organizationId", u.role, u.welder_id AS "welderId",
             CASE u.role
               WHEN 'foreman' THEN ARRAY(SELECT fs.shop_id::text FROM foreman_shops fs WHERE fs.user_id = u.id ORDER BY 1)

@@ -4,6 +4,7 @@ import type { EntityManager } from 'typeorm';
 import { scopeWelders, type Actor } from '../lib/scope.js';
 import { companyWarnDaysSql } from '../continuity/continuity-state.repository.js';
 import { QualificationEntity, type QualificationRow } from './qualification.entity.js';
+import { preparedQuery } from '../lib/prepared.js';
 
 export interface QualificationRaw {
   id: string;
@@ -71,11 +72,13 @@ export async function listQualifications(
   if (f.welderId) qb.andWhere('q.welder_id = :welderId', { welderId: f.welderId });
   if (f.superseded !== undefined)
     qb.andWhere(f.superseded ? 'q.superseded_by_id IS NOT NULL' : 'q.superseded_by_id IS NULL');
-  return qb
+  // A hot read (the welder file, the verify page): run as a prepared statement (lib/prepared.ts).
+  const [sql, params] = qb
     .orderBy('w.stamp', 'ASC')
     .addOrderBy('q.certified_on', 'DESC')
     .addOrderBy('q.id', 'ASC')
-    .getRawMany<QualificationRaw>();
+    .getQueryAndParameters();
+  return preparedQuery<QualificationRaw>(db, sql, params);
 }
 
 export async function findQualification(db: EntityManager, actor: Actor, id: string) {

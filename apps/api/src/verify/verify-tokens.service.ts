@@ -8,6 +8,7 @@ import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
 import { VerifyTokenEntity } from './verify-token.entity.js';
+import { preparedQuery } from '../lib/prepared.js';
 
 export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
 
@@ -177,7 +178,9 @@ export async function resolveVerifyToken(
   opts: { evenIfLeft?: boolean } = {},
 ): Promise<{ welderId: string; organizationId: string; live: boolean } | null> {
   if (!/^[A-Za-z0-9_-]{43}$/.test(token)) return null;
-  const rows: { welderId: string; organizationId: string; live: boolean }[] = await db.query(
+  // The public verify page reads this on every scan: a prepared statement (lib/prepared.ts).
+  const rows = await preparedQuery<{ welderId: string; organizationId: string; live: boolean }>(
+    db,
     `SELECT t.welder_id AS "welderId", t.organization_id AS "organizationId", t.revoked_at IS NULL AS live
        FROM verify_tokens t JOIN welders w ON w.id = t.welder_id
       WHERE t.token_hash = $1

@@ -4,6 +4,7 @@ import type { VerifyView } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { todayIn } from '../lib/dates.js';
+import { preparedQuery } from '../lib/prepared.js';
 import { companyTimeZone } from '../settings/settings.repository.js';
 import { rangeSummary, welderQualificationsToday } from '../qualifications/qualifications.service.js';
 import { resolveVerifyToken } from './verify-tokens.service.js';
@@ -18,13 +19,13 @@ export async function verifyView(deps: AppDeps, token: string): Promise<VerifyVi
   const db = deps.dataSource.manager;
   const found = await resolveVerifyToken(db, token, { evenIfLeft: true });
   if (!found) throw new AppError('not_found', 'This card is no longer valid');
-  const rows: { name: string; stamp: string; company: string; active: boolean; leftAt: Date | null }[] =
-    await db.query(
-      `SELECT w.name, w.stamp, o.name AS company, w.active, w.left_at AS "leftAt"
-         FROM welders w JOIN organizations o ON o.id = w.organization_id
-        WHERE w.id = $1`,
-      [found.welderId],
-    );
+  const rows = await preparedQuery<{ name: string; stamp: string; company: string; active: boolean; leftAt: Date | null }>(
+    db,
+    `SELECT w.name, w.stamp, o.name AS company, w.active, w.left_at AS "leftAt"
+       FROM welders w JOIN organizations o ON o.id = w.organization_id
+      WHERE w.id = $1`,
+    [found.welderId],
+  );
   const welder = rows[0];
   if (!welder) throw new AppError('not_found', 'This card is no longer valid');
   const timeZone = await companyTimeZone(db, found.organizationId);

@@ -1,14 +1,15 @@
-// Welders in PostgreSQL. The list is one set-based query plus one count, scoped by lib/scope.
+// Welders in PostgreSQL. The list is one set-based query carrying its total, scoped as lib/scope scopes.
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import type { Welder, welderListQuery } from '@beadroll/rules';
-import { scopeWelders, type Actor } from '../lib/scope.js';
+import type { Actor } from '../lib/scope.js';
 import {
   companyWarnDaysSql,
   qualificationLapsesOnSql,
   qualificationStateSql,
 } from '../continuity/continuity-state.repository.js';
 import { WelderEntity } from './welder.entity.js';
+import { preparedQuery } from '../lib/prepared.js';
 
 type ListQuery = z.output<typeof welderListQuery>;
 type WelderRaw = Omit<Welder, 'createdAt'> & { createdAt: Date };
@@ -23,11 +24,22 @@ const toWelder = (r: WelderRaw): Welder => ({ ...r, createdAt: r.createdAt.toISO
 export interface StatusAsOf {
   asOf: string;
 }
-const qState = qualificationStateSql('q', 'cs', ':asOf::date', companyWarnDaysSql(':organizationId'));
+
+// Hand-written SQL run as prepared statements (lib/prepared.ts): the list is the busiest read of the
+// product, and building it with the QueryBuilder and planning it on every call cost more than running
+// it. Parameters: $1 the company, $2 today; the rest are numbered as the filters add them.
+const qState = qualificationStateSql('q', 'cs', '$2::date', companyWarnDaysSql('$1'));
 const qLapses = qualificationLapsesOnSql('q', 'cs');
 const qualificationsOf = `FROM qualifications q
   LEFT JOIN continuity_states cs ON cs.welder_id = q.welder_id AND cs.process = q.process AND cs.code = q.code
   WHERE q.welder_id = w.id AND q.superseded_by_id IS NULL`;
+
+const welderColumns = `w.id, w.stamp, w.name, json_build_object('id', s.id, 'name', s.name, 'code', s.code) AS "homeShop",
+  w.email, w.active, EXISTS (SELECT 1 FROM users u WHERE u.welder_id = w.id) AS "hasAccount", w.version,
+  w.created_at AS "createdAt",
+  (SELECT coalesce(json_agg(json_build_object('id', q.id, 'process', q.process, 'code', q.code,
+      'state', ${qState}, 'lapsesOn', to_char(${qLapses}, 'YYYY-MM-DD'), 'daysLeft', ${qLapses} - $2::date)
+      ORDER BY q.process, q.code, q.certified_on), '[]') ${qualificationsOf}) AS qualifications`;
 
 const sortColumn: Record<ListQuery['sort'], string> = {
   stamp: 'w.stamp',
@@ -39,64 +51,73 @@ const sortColumn: Record<ListQuery['sort'], string> = {
   lapsesOn: 'w.soonest_lapses_on',
 };
 
-function weldersQuery(db: EntityManager, actor: Actor, status?: StatusAsOf) {
-  const qb = db
-    .createQueryBuilder()
-    .from(WelderEntity, 'w')
-    .innerJoin('Shop', 's', 's.id = w.home_shop_id')
-    .select('w.id', 'id')
-    .addSelect('w.stamp', 'stamp')
-    .addSelect('w.name', 'name')
-    .addSelect(`json_build_object('id', s.id, 'name', s.name, 'code', s.code)`, 'homeShop')
-    .addSelect('w.email', 'email')
-    .addSelect('w.active', 'active')
-    .addSelect('EXISTS (SELECT 1 FROM users u WHERE u.welder_id = w.id)', 'hasAccount')
-    .addSelect('w.version', 'version')
-    .addSelect('w.created_at', 'createdAt');
-  if (status)
-    qb.addSelect(
-      `(SELECT coalesce(json_agg(json_build_object('id', q.id, 'process', q.process, 'code', q.code,
-          'state', ${qState}, 'lapsesOn', to_char(${qLapses}, 'YYYY-MM-DD'), 'daysLeft', ${qLapses} - :asOf::date)
-          ORDER BY q.process, q.code, q.certified_on), '[]') ${qualificationsOf})`,
-      'qualifications',
-    ).setParameters({ asOf: status.asOf, organizationId: actor.organizationId });
-  return scopeWelders(qb, 'w', actor);
+/** The welders the actor may read (lib/scope's rule, in SQL): conditions and their parameters. */
+function scoped(actor: Actor, status: StatusAsOf) {
+  const params: unknown[] = [actor.organizationId, status.asOf];
+  const where = ['w.organization_id = $1'];
+  const param = (value: unknown) => `$${params.push(value)}`;
+  if (actor.role === 'foreman') where.push(`w.home_shop_id = ANY(${param(actor.shopIds)}::uuid[])`);
+  if (actor.role === 'welder') where.push(actor.welderId ? `w.id = ${param(actor.welderId)}` : 'false');
+  return { params, where, param };
 }
 
 const likePattern = (q: string) => `%${q.replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
 
+/** One page and the total, in one round trip (the total is an uncorrelated subselect, counted once). */
 export async function listWelders(
   db: EntityManager,
   actor: Actor,
   query: ListQuery,
-  status?: StatusAsOf,
+  status: StatusAsOf,
 ): Promise<{ items: Welder[]; total: number }> {
-  const qb = weldersQuery(db, actor, status);
-  if (query.state && status) qb.andWhere(`EXISTS (SELECT 1 ${qualificationsOf} AND ${qState} = :state)`, { state: query.state });
-  if (query.status !== 'all') qb.andWhere('w.active = :active', { active: query.status === 'active' });
-  if (query.shopId) qb.andWhere('w.home_shop_id = :shopId', { shopId: query.shopId });
-  if (query.q) qb.andWhere('(w.stamp ILIKE :q OR w.name ILIKE :q)', { q: likePattern(query.q) });
-  // welders ⋈ shops is one row per welder: a plain count (no DISTINCT sort) over the same filters.
-  const counted = await qb.clone().select('count(*)::int', 'total').orderBy().getRawOne<{ total: number }>();
-  const total = counted?.total ?? 0;
+  const { params, where, param } = scoped(actor, status);
+  if (query.state) where.push(`EXISTS (SELECT 1 ${qualificationsOf} AND ${qState} = ${param(query.state)})`);
+  if (query.status !== 'all') where.push(`w.active = ${param(query.status === 'active')}`);
+  if (query.shopId) where.push(`w.home_shop_id = ${param(query.shopId)}`);
+  if (query.q) {
+    const q = param(likePattern(query.q));
+    where.push(`(w.stamp ILIKE ${q} OR w.name ILIKE ${q})`);
+  }
+  const from = `FROM welders w JOIN shops s ON s.id = w.home_shop_id WHERE ${where.join(' AND ')}`;
   const dir = query.dir === 'desc' ? 'DESC' : 'ASC';
-  const rows = await qb
-    .orderBy(sortColumn[query.sort], dir, query.sort === 'lapsesOn' ? 'NULLS LAST' : undefined)
-    .addOrderBy('w.stamp', dir)
-    .addOrderBy('w.id', 'ASC')
-    .offset((query.page - 1) * query.pageSize)
-    .limit(query.pageSize)
-    .getRawMany<WelderRaw>();
-  return { items: rows.map(toWelder), total };
+  const order = `${sortColumn[query.sort]} ${dir}${query.sort === 'lapsesOn' ? ' NULLS LAST' : ''}, w.stamp ${dir}, w.id`;
+  const limit = param(query.pageSize);
+  const offset = param((query.page - 1) * query.pageSize);
+  // welders ⋈ shops is one row per welder: a plain count over the same filters.
+  const rows = await preparedQuery<WelderRaw & { total: number }>(
+    db,
+    `SELECT ${welderColumns}, (SELECT count(*)::int ${from}) AS total ${from} ORDER BY ${order} LIMIT ${limit} OFFSET ${offset}`,
+    params,
+  );
+  // A page past the end has no row to carry the total: count alone then.
+  const total =
+    rows[0]?.total ??
+    (query.page === 1
+      ? 0
+      : ((
+          await preparedQuery<{ total: number }>(
+            db,
+            // $2 (today) is named so that every parameter of the filters keeps its number and type.
+            `SELECT count(*)::int AS total, $2::date AS "asOf" ${from}`,
+            params.slice(0, -2),
+          )
+        )[0]?.total ?? 0));
+  return { items: rows.map(({ total: _t, ...r }) => toWelder(r)), total };
 }
 
 export async function findWelder(
   db: EntityManager,
   actor: Actor,
   id: string,
-  status?: StatusAsOf,
+  status: StatusAsOf,
 ): Promise<Welder | null> {
-  const row = await weldersQuery(db, actor, status).andWhere('w.id = :id', { id }).getRawOne<WelderRaw>();
+  const { params, where, param } = scoped(actor, status);
+  where.push(`w.id = ${param(id)}`);
+  const [row] = await preparedQuery<WelderRaw>(
+    db,
+    `SELECT ${welderColumns} FROM welders w JOIN shops s ON s.id = w.home_shop_id WHERE ${where.join(' AND ')}`,
+    params,
+  );
   return row ? toWelder(row) : null;
 }
 
