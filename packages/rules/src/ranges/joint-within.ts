@@ -5,6 +5,7 @@
 import { jointSchema, type Joint, type JointCheck, type JointReason } from '../schemas/examination.js';
 import { exceeds, formatLength, limitIn, valueIn, type DualSize, type Length } from '../units/length.js';
 import { parseInput } from '../validation/parse-input.js';
+import { codeNames } from '../names/display-names.js';
 import { weldingPositionNames, type WeldingPosition } from './positions.js';
 import { type QualifiedRanges } from './qualified-ranges.js';
 import { type Interval } from './size-ranges.js';
@@ -62,7 +63,7 @@ function intervalWords(iv: Interval): string {
 }
 
 const clauseOf = (r: QualifiedRanges, variable: string): string =>
-  r.limits.find((l) => l.variable === variable)?.clause ?? r.code;
+  r.limits.find((l) => l.variable === variable)?.clause ?? codeNames[r.code];
 
 const names = (ps: readonly WeldingPosition[]): string =>
   ps.length === 0 ? 'no position' : ps.map((p) => `${p} (${weldingPositionNames[p]})`).join(', ');
