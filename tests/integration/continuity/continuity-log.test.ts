@@ -119,7 +119,16 @@ describe('continuity log (PUT/GET /api/continuity/grid)', () => {
     const queue = typed<Items<{ id: string }>>(await w.qa.get('/api/continuity/review').expect(200));
     expect(queue.items).toHaveLength(1);
     expect((await w.foreman.get('/api/continuity/review')).status).toBe(403);
-    await w.qa.post(`/api/continuity/entries/${e!.id}/review`).send({ note: 'Welds on J-9 to be radiographed' }).expect(200);
+    // A review needs a decision about the welds and a note (issue 10, item 2); nothing is saved without them.
+    const noDecision = await w.qa.post(`/api/continuity/entries/${e!.id}/review`).send({ note: 'Welds on J-9 to be radiographed' });
+    expect(noDecision.status).toBe(400);
+    expect(errorOf(noDecision).fields).toMatchObject({ decision: 'Choose what was decided about the welds' });
+    const noNote = await w.qa.post(`/api/continuity/entries/${e!.id}/review`).send({ decision: 'welds-examined', note: '   ' });
+    expect(noNote.status).toBe(400);
+    expect(errorOf(noNote).fields).toHaveProperty('note');
+    expect(typed<Items<{ id: string }>>(await w.qa.get('/api/continuity/review').expect(200)).items).toHaveLength(1);
+    await w.qa.post(`/api/continuity/entries/${e!.id}/review`).send({ decision: 'welds-examined', note: 'Welds on J-9 radiographed, RT-118 accepted' }).expect(200);
+    expect((await api.ds.query<{ d: string; n: string }[]>(`SELECT review_decision AS d, review_note AS n FROM continuity_entries WHERE id = $1`, [e!.id]))[0]).toEqual({ d: 'welds-examined', n: 'Welds on J-9 radiographed, RT-118 accepted' });
     expect(typed<Items<{ id: string }>>(await w.qa.get('/api/continuity/review').expect(200)).items).toHaveLength(0);
     expect((await auditRows(api.ds, e!.id)).map((a) => a.action)).toContain('continuity-entry.reviewed');
     const timeline = typed<Timeline>(await w.qa.get(`/api/welders/${w.a1.id}/timeline`).expect(200));

@@ -144,7 +144,7 @@ describe('continuity evidence per code (issue 8)', () => {
     await w.refresh('SMAW');
     const e = (await w.entry('2024-09-03'))!;
     expect(e).toMatchObject({ flagged: true, review: 'pending' });
-    await w.qaSession.post(`/api/continuity/entries/${e.id}/review`).send({ note: 'RT of job J-1 welds' }).expect(200);
+    await w.qaSession.post(`/api/continuity/entries/${e.id}/review`).send({ decision: 'welds-examined', note: 'RT of job J-1 welds' }).expect(200);
     expect(await w.entry('2024-09-03')).toMatchObject({ review: 'reviewed' });
     // A passing certified test before it un-flags it; deleting the test flags it again: a new review.
     const late = await w.test('asme-ix', 'SMAW', '2024-06-01', { certify: true });
@@ -154,7 +154,9 @@ describe('continuity evidence per code (issue 8)', () => {
     await api.ds.query(`UPDATE coupons SET result = 'reject' WHERE id = $1`, [late.couponId]);
     await w.refresh('SMAW');
     expect(await w.entry('2024-09-03')).toMatchObject({ flagged: true, review: 'pending' });
-    await w.qaSession.post(`/api/continuity/entries/${e.id}/review`).send({ note: 'RT again' }).expect(200);
+    // The earlier decision was about other facts: it is cleared with the review status.
+    expect((await api.ds.query<{ d: string | null }[]>(`SELECT review_decision AS d FROM continuity_entries WHERE id = $1`, [e.id]))[0]).toEqual({ d: null });
+    await w.qaSession.post(`/api/continuity/entries/${e.id}/review`).send({ decision: 'welds-examined', note: 'RT again' }).expect(200);
     // Edited through the grid (QA may change a closed month): reviewed becomes pending again.
     const [v] = await api.ds.query<{ version: number }[]>(`SELECT version FROM continuity_entries WHERE id = $1`, [e.id]);
     await w.qaSession

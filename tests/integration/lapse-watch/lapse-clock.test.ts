@@ -3,7 +3,7 @@
 // the verify page and the Settings page all follow the company's time zone, never the UTC date.
 import { rm } from 'node:fs/promises';
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest';
-import { companySettingsSchema, lapseWatchPreviewSchema, qualificationSchema, verifySchema } from '@beadroll/rules';
+import { companySettingsSchema, gridSchema, lapseWatchPreviewSchema, meSchema, qualificationSchema, verifySchema } from '@beadroll/rules';
 import { startMailCatcher, type MailCatcher } from '../../../docker-free-scripts/mail-catcher.js';
 import { runDueLapseWatch } from '../../../apps/api/src/jobs/lapse-watch.job.js';
 import { serverTimeZone, todayIn, wallTimeIn } from '../../../apps/api/src/lib/dates.js';
@@ -110,6 +110,20 @@ describe('a company clock', () => {
     expect(view).toMatchObject({ asOf: '2026-06-01', leftOn: null });
     // A preview defaults to the company's day.
     expect(bodyOf(lapseWatchPreviewSchema, await qa.get('/api/lapse-watch/preview')).asOf).toBe('2026-06-01');
+    // The caller learns the company's zone (the web computes the current month in it), and the
+    // continuity log's "today", its current month and its future-date check follow the Chicago day.
+    // 2026-06-02 03:00 UTC is still 06-01 (22:00) in Chicago: the UTC date would be a day ahead.
+    clock.set('2026-06-02T03:00:00Z');
+    expect(bodyOf(meSchema, await qa.get('/api/me')).timeZone).toBe('America/Chicago');
+    const grid = bodyOf(gridSchema, await qa.get('/api/continuity/grid').query({ shopId: w.shopA.id, month: '2026-06' }));
+    expect(grid.today).toBe('2026-06-01');
+    const ahead = await qa.put('/api/continuity/grid').send({
+      shopId: w.shopA.id,
+      month: '2026-06',
+      cells: [{ welderId: w.weldersA[1]!.id, process: 'SMAW', usedOn: '2026-06-02', jobReference: 'J-1' }],
+    });
+    expect(ahead.status).toBe(400);
+    expect(errorOf(ahead).fields).toHaveProperty(['cells.0.usedOn']);
   });
 
   it('defect 5: a run dated tomorrow or yesterday is refused (400 naming asOf) and writes nothing; preview looks ahead and back without using up a notice', async () => {

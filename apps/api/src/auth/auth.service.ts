@@ -18,6 +18,7 @@ import { recordAudit } from '../lib/audit.js';
 import { clipText } from '../lib/text.js';
 import { SESSION_HOURS, signSession } from '../lib/auth.js';
 import { listShopRefs } from '../shops/shops.service.js';
+import { companyTimeZone, zoneInForce } from '../settings/settings.repository.js';
 import { ipKeyGenerator } from 'express-rate-limit';
 import * as repo from './auth.repository.js';
 import * as throttle from './throttle.repository.js';
@@ -37,7 +38,8 @@ const hashToken = (token: string) => createHash('sha256').update(token).digest('
 export async function getMe(deps: AppDeps, actor: Actor): Promise<Me> {
   const row = await repo.findMe(deps.dataSource.manager, actor.id);
   if (!row) throw new AppError('unauthenticated', 'Sign in to continue');
-  return { ...row, shops: await listShopRefs(deps, actor) };
+  const timeZone = actor.timeZone !== undefined ? zoneInForce(actor.timeZone) : await companyTimeZone(deps.dataSource.manager, actor.organizationId);
+  return { ...row, shops: await listShopRefs(deps, actor), timeZone };
 }
 
 /** Where a sign-in comes from, kept on its session so the owner can tell their devices apart. */

@@ -185,7 +185,8 @@ const flagSql = (entryFilter: string) => `
      SET flagged_lapsed = f.flag,
          -- A newly flagged entry waits for review even if an earlier flag of it was reviewed: the review
          -- was of other facts. An entry no longer flagged has nothing to review.
-         review_status = CASE WHEN f.flag THEN 'pending' END
+         review_status = CASE WHEN f.flag THEN 'pending' END,
+         review_decision = NULL
     FROM (SELECT x.id, EXISTS (SELECT 1 FROM continuity_states s
                                 WHERE s.welder_id = x.welder_id AND s.process = x.process
                                   AND x.used_on >= s.qualified_on AND x.used_on = ANY (s.ignored)) AS flag

@@ -15,6 +15,7 @@ export interface ContinuityEntryRow {
   flaggedLapsed: boolean;
   reviewStatus: 'pending' | 'reviewed' | null;
   reviewNote: string | null;
+  reviewDecision: string | null;
   reviewedBy: string | null;
   reviewedAt: Date | null;
   loggedBy: string | null;
@@ -39,6 +40,7 @@ export const ContinuityEntryEntity = new EntitySchema<ContinuityEntryRow>({
     flaggedLapsed: col.bool('flagged_lapsed'),
     reviewStatus: col.text('review_status', true),
     reviewNote: col.text('review_note', true),
+    reviewDecision: col.text('review_decision', true),
     reviewedBy: col.uuid('reviewed_by', true),
     reviewedAt: col.at('reviewed_at', true),
     loggedBy: col.uuid('logged_by', true),

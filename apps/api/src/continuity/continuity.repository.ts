@@ -1,6 +1,7 @@
 // The continuity log in PostgreSQL: the grid of one shop and month (one query), the upsert of a month's
 // cells (one statement), removals, the review queue and one welder's logged use for the timeline.
 import type { EntityManager } from 'typeorm';
+import type { ReviewDecision } from '@beadroll/rules';
 
 export interface GridCell {
   entryId: string;
@@ -157,7 +158,8 @@ export async function upsertCells(
             logged_by = EXCLUDED.logged_by, updated_at = EXCLUDED.updated_at, version = e.version + 1,
             -- A reviewed entry that is edited is a new statement of fact: it waits for review again (the
             -- refresh that follows clears the status if the edit leaves it unflagged).
-            review_status = CASE WHEN e.review_status = 'reviewed' THEN 'pending' ELSE e.review_status END
+            review_status = CASE WHEN e.review_status = 'reviewed' THEN 'pending' ELSE e.review_status END,
+            review_decision = NULL
       WHERE (e.used_on, e.job_reference, e.note) IS DISTINCT FROM (EXCLUDED.used_on, EXCLUDED.job_reference, EXCLUDED.note)
      RETURNING ${snapshotColumns}, (xmax = 0) AS inserted`,
     [
@@ -195,7 +197,8 @@ export async function removeCells(
 const reviewColumns = `e.id, json_build_object('id', w.id, 'stamp', w.stamp, 'name', w.name) AS welder,
   json_build_object('id', s.id, 'name', s.name, 'code', s.code) AS shop, e.process,
   to_char(e.used_on, 'YYYY-MM-DD') AS "usedOn", e.job_reference AS "jobReference", e.note,
-  e.review_status AS "reviewStatus", e.review_note AS "reviewNote", u.name AS "loggedBy"`;
+  e.review_status AS "reviewStatus", e.review_note AS "reviewNote", e.review_decision AS "reviewDecision",
+  u.name AS "loggedBy"`;
 
 export interface ReviewEntryRow {
   id: string;
@@ -207,6 +210,7 @@ export interface ReviewEntryRow {
   note: string;
   reviewStatus: 'pending' | 'reviewed' | null;
   reviewNote: string | null;
+  reviewDecision: ReviewDecision | null;
   loggedBy: string | null;
 }
 
@@ -225,7 +229,7 @@ export async function markReviewed(
   db: EntityManager,
   organizationId: string,
   id: string,
-  r: { note: string; by: string; at: Date },
+  r: { decision: ReviewDecision; note: string; by: string; at: Date },
 ): Promise<{ id: string; reviewStatus: string | null; flaggedLapsed: boolean } | null> {
   const [row] = await db.query<{ id: string; reviewStatus: string | null; flaggedLapsed: boolean }[]>(
     `SELECT id, review_status AS "reviewStatus", flagged_lapsed AS "flaggedLapsed" FROM continuity_entries
@@ -234,9 +238,9 @@ export async function markReviewed(
   );
   if (!row || !row.flaggedLapsed || row.reviewStatus !== 'pending') return row ?? null;
   await db.query(
-    `UPDATE continuity_entries SET review_status = 'reviewed', review_note = $2, reviewed_by = $3, reviewed_at = $4,
-            version = version + 1, updated_at = $4 WHERE id = $1`,
-    [id, r.note, r.by, r.at],
+    `UPDATE continuity_entries SET review_status = 'reviewed', review_decision = $5, review_note = $2, reviewed_by = $3,
+            reviewed_at = $4, version = version + 1, updated_at = $4 WHERE id = $1`,
+    [id, r.note, r.by, r.at, r.decision],
   );
   return { ...row, reviewStatus: 'reviewed' };
 }

@@ -2,21 +2,22 @@
 // continuity state of every touched pair refreshed and each change audited; the review queue of use
 // logged while lapsed; and a welder's continuity timeline per process.
 import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
-import { addMonths, daysBetween, processes, type Process } from '@beadroll/rules';
+import { addMonths, daysBetween, processes, type Process, type ReviewInput } from '@beadroll/rules';
 import type { EntityManager } from 'typeorm';
 import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
-import { isoDay } from '../lib/dates.js';
 import { getCompanySettings } from '../settings/settings.repository.js';
 import { getWelder } from '../welders/welders.service.js';
 import * as repo from './continuity.repository.js';
 import { lockPairs, refreshContinuityPairs, storedStates, welderWalk } from './continuity-state.repository.js';
 import type { GridSaveInput } from './continuity.schema.js';
+import { companyToday } from '../settings/settings.repository.js';
 
 const firstDay = (month: string) => `${month}-01`;
-const today = (deps: AppDeps) => isoDay(deps.clock.now());
+/** Today in the company's own time zone (a foreman in Chicago at 19:00 is still in today's month). */
+const today = (deps: AppDeps, actor: Actor) => companyToday(deps.dataSource.manager, actor, deps.clock);
 
 function checkShopAccess(actor: Actor, shopId: string): void {
   if (actor.role === 'welder') throw AppError.forbidden();
@@ -50,11 +51,12 @@ export async function getGrid(deps: AppDeps, actor: Actor, q: { shopId: string; 
     r.entries.forEach((e) => columns.add(e.process));
   }
   const ordered = processes.filter((p) => columns.has(p));
+  const todayIso = await today(deps, actor);
   return {
     shop,
     month: q.month,
-    closed: isClosed(q.month, today(deps), settings.closedMonthAfter),
-    today: today(deps),
+    closed: isClosed(q.month, todayIso, settings.closedMonthAfter),
+    today: todayIso,
     processes: ordered,
     rows: raw.map((r) => ({
       welder: r.welder,
@@ -111,7 +113,7 @@ function checkCells(input: GridSaveInput, todayIso: string): void {
 export async function saveGrid(deps: AppDeps, actor: Actor, input: GridSaveInput) {
   checkShopAccess(actor, input.shopId);
   await shopOf(deps, actor, input.shopId);
-  const todayIso = today(deps);
+  const todayIso = await today(deps, actor);
   checkCells(input, todayIso);
   const month = firstDay(input.month);
   await deps.dataSource.transaction(async (db) => {
@@ -229,11 +231,11 @@ export async function reviewQueue(deps: AppDeps, actor: Actor) {
   return { items: await repo.pendingReview(deps.dataSource.manager, actor.organizationId) };
 }
 
-export async function reviewEntry(deps: AppDeps, actor: Actor, id: string, input: { note: string }) {
+export async function reviewEntry(deps: AppDeps, actor: Actor, id: string, input: ReviewInput) {
   if (!isUuid(id)) throw AppError.notFound('entry');
   return deps.dataSource.transaction(async (db) => {
     const now = deps.clock.now();
-    const row = await repo.markReviewed(db, actor.organizationId, id, { note: input.note, by: actor.id, at: now });
+    const row = await repo.markReviewed(db, actor.organizationId, id, { ...input, by: actor.id, at: now });
     if (!row) throw AppError.notFound('entry');
     if (!row.flaggedLapsed) throw AppError.conflict('Only use logged while lapsed waits for review');
     await recordAudit(db, actor, now, {
@@ -241,9 +243,9 @@ export async function reviewEntry(deps: AppDeps, actor: Actor, id: string, input
       entityType: 'continuity-entry',
       entityId: id,
       before: { reviewStatus: 'pending' },
-      after: { reviewStatus: 'reviewed', reviewNote: input.note },
+      after: { reviewStatus: 'reviewed', reviewDecision: input.decision, reviewNote: input.note },
     });
-    return { id, reviewStatus: 'reviewed' as const, reviewNote: input.note };
+    return { id, reviewStatus: 'reviewed' as const, reviewDecision: input.decision, reviewNote: input.note };
   });
 }
 
@@ -264,7 +266,7 @@ type EventKind = 'test' | 'use' | 'lapse' | 'renewal' | 'flag' | 'revocation';
 export async function welderTimeline(deps: AppDeps, actor: Actor, welderId: string) {
   const welder = await getWelder(deps, actor, welderId);
   const db = deps.dataSource.manager;
-  const asOf = today(deps);
+  const asOf = await today(deps, actor);
   const settings = await getCompanySettings(db, actor.organizationId);
   const warnDays = Math.max(...settings.warnDays);
   const [walk, states, history] = await Promise.all([

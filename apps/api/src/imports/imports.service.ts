@@ -8,7 +8,6 @@ import type { Import, ImportCheckInput, ImportKind } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { recordAudit } from '../lib/audit.js';
-import { isoDay } from '../lib/dates.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { suggestMapping } from './cells.js';
 import type { KindDef, PlanContext } from './import-plan.js';
@@ -16,6 +15,7 @@ import { readSpreadsheet } from './spreadsheet.js';
 import { weldersImport } from './welders.import.js';
 import { continuityImport } from './continuity.import.js';
 import * as repo from './imports.repository.js';
+import { companyToday } from '../settings/settings.repository.js';
 
 const kinds: Partial<Record<ImportKind, KindDef>> = { welders: weldersImport, continuity: continuityImport };
 
@@ -119,13 +119,14 @@ function checkMapping(row: repo.ImportRow, input: ImportCheckInput) {
   if (Object.keys(fields).length) throw AppError.validation(fields, 'Check the column mapping');
 }
 
-const planContext = (deps: AppDeps, actor: Actor, db: PlanContext['db'], sheet: PlanContext['sheet'], input: ImportCheckInput): PlanContext => ({
+const planContext = async (deps: AppDeps, actor: Actor, db: PlanContext['db'], sheet: PlanContext['sheet'], input: ImportCheckInput): Promise<PlanContext> => ({
   db,
   actor,
   sheet,
   mapping: input.mapping,
   dateFormat: input.dateFormat,
-  today: isoDay(deps.clock.now()),
+  // The company's own day: a date of use is "in the future" by its clock, not the server's.
+  today: await companyToday(db, actor, deps.clock),
 });
 
 /** The dry run: nothing is written but the report and the company's mapping for this kind. */
@@ -135,7 +136,7 @@ export async function checkImport(deps: AppDeps, actor: Actor, id: string, input
     throw AppError.conflict(row.status === 'running' ? 'This import is running' : 'This import is already committed');
   checkMapping(row, input);
   const sheet = await readFile(deps, row);
-  const plan = await kindDef(row.kind).plan(planContext(deps, actor, deps.dataSource.manager, sheet, input));
+  const plan = await kindDef(row.kind).plan(await planContext(deps, actor, deps.dataSource.manager, sheet, input));
   const options = { headers: row.options.headers, mapping: input.mapping, dateFormat: input.dateFormat };
   await deps.dataSource.transaction(async (db) => {
     await repo.saveCheck(db, row.id, options, plan.report);
@@ -170,7 +171,7 @@ async function runCommit(deps: AppDeps, actor: Actor, row: repo.ImportRow): Prom
       await db.query(`SET LOCAL statement_timeout = '300s'`);
       // One import of a company at a time: two would plan against each other's unwritten rows.
       await db.query(`SELECT pg_advisory_xact_lock(hashtextextended('import:' || $1, 0))`, [actor.organizationId]);
-      const plan = await kindDef(row.kind).plan(planContext(deps, actor, db, sheet, input));
+      const plan = await kindDef(row.kind).plan(await planContext(deps, actor, db, sheet, input));
       if (plan.report.errors > 0) throw new AppError('conflict', 'The data changed since the check; check the file again');
       await progress('writing', 0, plan.report.new + plan.report.changed);
       const written = await plan.apply(db, progress);

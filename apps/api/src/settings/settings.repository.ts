@@ -27,7 +27,7 @@ const defaults = (): CompanySettingsValues => ({
 });
 
 /** A zone stored before this runtime stopped knowing it falls back to the server's, never throws. */
-const zoneInForce = (chosen: string | null) => (chosen && isTimeZone(chosen) ? chosen : serverTimeZone());
+export const zoneInForce = (chosen: string | null) => (chosen && isTimeZone(chosen) ? chosen : serverTimeZone());
 
 const byLargest = (days: number[]) => [...days].sort((a, b) => b - a);
 

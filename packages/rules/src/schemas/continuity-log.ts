@@ -47,7 +47,22 @@ export type GridSaveBody = z.input<typeof gridSaveInput>;
 
 export const gridWeldersQuery = z.object({ shopId: uuid, q: searchQuerySchema });
 
-export const reviewInput = z.object({ note: textSchema({ max: 500, multiline: true }).optional().default('') });
+/**
+ * What the QA manager decided about the welds made while the welder was out of continuity (common
+ * practice (no source): a nonconformance is closed with a disposition and its reasons).
+ */
+export const reviewDecisions = ['welds-examined', 'welds-repaired', 'logged-in-error'] as const;
+export type ReviewDecision = (typeof reviewDecisions)[number];
+export const reviewDecisionLabels: Record<ReviewDecision, string> = {
+  'welds-examined': 'Welds examined and accepted',
+  'welds-repaired': 'Welds cut out or repaired',
+  'logged-in-error': 'Logged in error: the welder did not weld',
+};
+export const reviewInput = z.object({
+  decision: z.enum(reviewDecisions, { error: 'Choose what was decided about the welds' }),
+  note: textSchema({ max: 500, min: 1, multiline: true }),
+});
+export type ReviewInput = z.infer<typeof reviewInput>;
 
 // ---- responses --------------------------------------------------------------------------------------
 
@@ -118,6 +133,7 @@ export const reviewEntrySchema = z.object({
   note: z.string(),
   reviewStatus: z.enum(['pending', 'reviewed']).nullable(),
   reviewNote: z.string().nullable(),
+  reviewDecision: z.enum(reviewDecisions).nullable(),
   loggedBy: z.string().nullable(),
 });
 export type ReviewEntry = z.infer<typeof reviewEntrySchema>;

@@ -46,6 +46,8 @@ export const meSchema = z.object({
   shops: z.array(shopRefSchema),
   /** The welder record a welder account belongs to; null for other roles. */
   welderId: z.string().nullable(),
+  /** The company's time zone in force (IANA name): "today" and the current month are computed in it. */
+  timeZone: z.string(),
 });
 export type Me = z.infer<typeof meSchema>;
 

@@ -34,8 +34,8 @@ import {
 import { shopQueries } from '@/features/shops/api/shop-queries';
 import { isApiError } from '@/lib/api-client';
 import { useUser } from '@/lib/auth';
+import { companyMonth } from '@/lib/company-day';
 
-const thisMonth = () => new Date().toISOString().slice(0, 7);
 const isMonth = (m: string | null): m is string => Boolean(m && /^\d{4}-(0[1-9]|1[0-2])$/.test(m));
 
 export default function ContinuityRoute() {
@@ -48,10 +48,12 @@ export default function ContinuityRoute() {
 
 function ContinuityScreen() {
   const [params, setParams] = useSearchParams();
+  // The current month on the company's clock (Settings → time zone), not the browser's.
+  const thisMonth = companyMonth(useUser().timeZone);
   const shops = useQuery(shopQueries.list());
   const activeShops = (shops.data ?? []).filter((s) => s.active);
   const shopId = params.get('shopId') ?? activeShops[0]?.id ?? '';
-  const month = isMonth(params.get('month')) ? params.get('month')! : thisMonth();
+  const month = isMonth(params.get('month')) ? params.get('month')! : thisMonth;
   // Unsaved edits of the month on screen: changing shop or month asks before throwing them away.
   const [dirty, setDirty] = useState(false);
   const [pending, setPending] = useState<Record<string, string> | null>(null);
@@ -77,7 +79,7 @@ function ContinuityScreen() {
           type="month"
           wrapperClassName="w-48"
           value={month}
-          max={thisMonth()}
+          max={thisMonth}
           onChange={(e) => isMonth(e.target.value) && choose({ month: e.target.value })}
         />
       </div>

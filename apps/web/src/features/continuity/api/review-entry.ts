@@ -1,16 +1,17 @@
 import { z } from 'zod';
+import type { ReviewInput } from '@beadroll/rules';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { apiRequest } from '@/lib/api-client';
 import { continuityQueries } from './continuity-queries';
 
 const reviewedSchema = z.object({ id: z.string(), reviewStatus: z.string().nullable() });
 
-/** The QA manager marks use logged while lapsed as reviewed, with a note on what was done with the welds. */
+/** The QA manager closes use logged while lapsed with a decision about the welds and a note. */
 export function useReviewEntry() {
   const queryClient = useQueryClient();
   return useMutation({
-    mutationFn: ({ id, note }: { id: string; note: string }) =>
-      apiRequest(`/api/continuity/entries/${encodeURIComponent(id)}/review`, reviewedSchema, { method: 'POST', body: { note } }),
+    mutationFn: ({ id, ...body }: ReviewInput & { id: string }) =>
+      apiRequest(`/api/continuity/entries/${encodeURIComponent(id)}/review`, reviewedSchema, { method: 'POST', body }),
     onSuccess: () =>
       Promise.all([
         queryClient.invalidateQueries({ queryKey: continuityQueries.all() }),

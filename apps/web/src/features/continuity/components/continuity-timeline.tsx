@@ -6,6 +6,8 @@ import { daysText } from '@/components/ui/qualification-chip';
 import { Card } from '@/components/ui/page-header';
 import { StatusChip } from '@/components/ui/status-chip';
 import { ErrorState, LoadingState } from '@/components/ui/states';
+import { useUser } from '@/lib/auth';
+import { companyToday } from '@/lib/company-day';
 import { continuityQueries } from '../api/continuity-queries';
 
 type TimelineProcess = Timeline['processes'][number];
@@ -29,20 +31,21 @@ export function lastUse(p: TimelineProcess): string | null {
   return p.events.filter((e) => e.kind === 'use').reduce<string | null>((a, e) => (!a || e.date > a ? e.date : a), null);
 }
 
-export function daysLeftOf(p: TimelineProcess, today = new Date().toISOString().slice(0, 10)): number | null {
+export function daysLeftOf(p: TimelineProcess, today: string): number | null {
   if (!p.lapsesOn) return null;
   return Math.round((Date.parse(p.lapsesOn) - Date.parse(today)) / 86_400_000);
 }
 
 export function ContinuitySummary({ welderId, full = false }: { welderId: string; full?: boolean }) {
   const timeline = useQuery(continuityQueries.timeline(welderId));
+  const today = companyToday(useUser().timeZone);
   if (timeline.isPending) return <LoadingState label="Loading continuity…" />;
   if (timeline.isError) return <ErrorState error={timeline.error} onRetry={() => void timeline.refetch()} />;
   if (timeline.data.processes.length === 0) return <Card className="p-4 text-sm text-stone-600">No continuity on record yet.</Card>;
   return (
     <div className="space-y-3">
       {timeline.data.processes.map((p) => {
-        const days = daysLeftOf(p);
+        const days = daysLeftOf(p, today);
         const last = lastUse(p);
         return (
           <Card key={`${p.process}:${p.code}`} className="p-4" >

@@ -1,12 +1,12 @@
 // The review queue of the Overview: use logged after a qualification had lapsed, which is not evidence,
 // each to be reviewed by the QA manager with a decision about the welds and a note.
-import type { ReviewEntry } from '@beadroll/rules';
+import { reviewDecisionLabels, reviewDecisions, type ReviewDecision, type ReviewEntry } from '@beadroll/rules';
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
 import { Dialog, DialogActions } from '@/components/ui/dialog';
-import { FormError, TextField } from '@/components/ui/field';
+import { FieldError, FormError, TextField } from '@/components/ui/field';
 import { Card } from '@/components/ui/page-header';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
@@ -73,14 +73,20 @@ export default function ReviewList() {
   );
 }
 
-function ReviewDialog({ entry, onClose }: { entry: ReviewEntry | null; onClose: () => void }) {
+export function ReviewDialog({ entry, onClose }: { entry: ReviewEntry | null; onClose: () => void }) {
   const review = useReviewEntry();
   const [note, setNote] = useState('');
+  const [decision, setDecision] = useState<ReviewDecision | ''>('');
+  // Checked here first, so an incomplete review never leaves the dialog; the server checks again.
+  const [missing, setMissing] = useState<{ decision?: string; note?: string }>({});
   const close = () => {
     setNote('');
+    setDecision('');
+    setMissing({});
     review.reset();
     onClose();
   };
+  const serverFields = isApiError(review.error) ? review.error.fields : {};
   return (
     <Dialog
       open={entry !== null}
@@ -90,12 +96,44 @@ function ReviewDialog({ entry, onClose }: { entry: ReviewEntry | null; onClose: 
     >
       {entry && (
         <form
+          noValidate
           onSubmit={(e) => {
             e.preventDefault();
-            review.mutate({ id: entry.id, note }, { onSuccess: close });
+            const problems = {
+              ...(decision ? {} : { decision: 'Choose what was decided about the welds' }),
+              ...(note.trim() ? {} : { note: 'Note what was done and where it is recorded (report or NCR number)' }),
+            };
+            setMissing(problems);
+            if (!decision || Object.keys(problems).length > 0) return;
+            review.mutate({ id: entry.id, decision, note: note.trim() }, { onSuccess: close });
           }}
         >
-          <TextField label="Disposition note" value={note} maxLength={500} onChange={(e) => setNote(e.target.value)} error={isApiError(review.error) ? review.error.fields.note : undefined} />
+          <fieldset className="mb-3" aria-describedby={missing.decision || serverFields.decision ? 'review-decision-error' : undefined}>
+            <legend className="mb-1 text-sm font-semibold text-stone-800">Decision about the welds</legend>
+            {reviewDecisions.map((d) => (
+              <label key={d} className="flex items-center gap-2 py-1 text-sm">
+                <input
+                  type="radio"
+                  name="review-decision"
+                  value={d}
+                  checked={decision === d}
+                  onChange={() => setDecision(d)}
+                  className="h-4 w-4 accent-accent-700"
+                />
+                {reviewDecisionLabels[d]}
+              </label>
+            ))}
+            <FieldError id="review-decision-error" message={missing.decision ?? serverFields.decision} />
+          </fieldset>
+          <TextField
+            label="Disposition note"
+            hint="What was done with the welds and where it is recorded (report or NCR number)."
+            value={note}
+            maxLength={500}
+            required
+            onChange={(e) => setNote(e.target.value)}
+            error={missing.note ?? serverFields.note}
+          />
           <FormError message={review.error ? errorMessage(review.error) : undefined} />
           <DialogActions>
             <Button onClick={close} disabled={review.isPending}>
