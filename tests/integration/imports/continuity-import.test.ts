@@ -38,6 +38,9 @@ describe('importing continuity history', () => {
     const checked = await check(qa, up.id, up.mapping, 'day-first');
     expect(checked.report!.issues).toEqual([
       { row: 4, column: 'Stamp', message: 'No welder with stamp Q-99 in your company; import or add the welder first' },
+      // A month alone is refused: use on an unknown day of a lapse month may have come after the lapse
+      // (issue 8: month-only use must never count where it could be wrong).
+      { row: 4, column: 'Date', message: expect.stringMatching(/“2026-02” is a month: give the day of use/) as string },
       { row: 5, column: 'Date', message: expect.stringMatching(/“31\/02\/2026” is not a date as day\/month\/year/) as string },
       { row: 6, column: 'Shop', message: 'No shop “CC” in your company' },
       { row: 6, column: 'Process', message: expect.stringMatching(/Choose one of SMAW/) as string },
@@ -50,7 +53,7 @@ describe('importing continuity history', () => {
       ['A-01', 'SMAW', new Date(Date.UTC(2026, 0, 14)), { formula: 'CONCATENATE("J-","4471")', result: 'J-4471' }, 'AA'],
       ['A-01', 'smaw', '03/02/2026', 'J-4480', ''],
       ['A-01', 'SMAW', '17/02/2026', 'J-4490', ''],
-      ['B-01', 'GTAW', '2026-01', '=HYPERLINK("x")', 'BB'],
+      ['B-01', 'GTAW', '20/01/2026', '=HYPERLINK("x")', 'BB'],
     ]);
     const up2 = await upload(qa, 'continuity', good, 'continuity 2026.xlsx');
     expect(up2.dateFormat).toBe('day-first');
@@ -68,8 +71,7 @@ describe('importing continuity history', () => {
     expect(entries).toEqual([
       { stamp: 'A-01', process: 'SMAW', usedOn: '2026-01-14', job: 'J-4471' },
       { stamp: 'A-01', process: 'SMAW', usedOn: '2026-02-17', job: 'J-4490' },
-      // A month without a day counts from its first day.
-      { stamp: 'B-01', process: 'GTAW', usedOn: '2026-01-01', job: '=HYPERLINK("x")' },
+      { stamp: 'B-01', process: 'GTAW', usedOn: '2026-01-20', job: '=HYPERLINK("x")' },
     ]);
 
     const again = await upload(qa, 'continuity', good, 'continuity 2026.xlsx');

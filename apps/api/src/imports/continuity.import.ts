@@ -3,9 +3,13 @@
 // schema as a cell of the Continuity log.
 // The log keeps one use per welder, process, shop and month (the grid's cell); several rows for one cell
 // fold into it, keeping the latest day (the one that carries continuity furthest) — the report says so.
-// A month without a day counts as its first day: the earliest the use can have been, never later.
+// A month without a day is refused: use on an unknown day of the month a qualification lapses in may have
+// come before the lapse or after it, and Beadroll cannot tell — the row must give the day (DESIGN: the grid
+// too asks for an explicit date of use). A change to a reviewed entry waits for review again, and every
+// lapse date the import moves raises its lapse notices in the same transaction, as a grid save does.
 import { gridSaveInput } from '@beadroll/rules';
 import { refreshContinuityPairs } from '../continuity/continuity-state.repository.js';
+import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import {
   addZodIssues,
   batches,
@@ -26,7 +30,7 @@ const cellSchema = gridSaveInput.shape.cells.unwrap().unwrap().element;
 const fields: FieldDef[] = [
   { key: 'stamp', label: 'Stamp', required: true, hint: 'The welder’s stamp', aliases: ['welder stamp', 'welder', 'stamp no', 'welder id'] },
   { key: 'process', label: 'Process', required: true, hint: 'SMAW, GTAW, GMAW, FCAW, SAW, PAW or OFW', aliases: ['welding process', 'proc'] },
-  { key: 'date', label: 'Date or month', required: true, hint: 'The day of use, or the month (YYYY-MM) when only that is known', aliases: ['used on', 'date used', 'month', 'day', 'weld date'] },
+  { key: 'date', label: 'Date', required: true, hint: 'The day of use', aliases: ['used on', 'date used', 'month', 'day', 'weld date'] },
   { key: 'job', label: 'Job', required: true, hint: 'The job or traveler number', aliases: ['job number', 'job no', 'job reference', 'traveler', 'work order'] },
   { key: 'shop', label: 'Shop', required: false, hint: 'The shop’s code or name (default: the welder’s home shop)', aliases: ['shop code', 'location'] },
   { key: 'note', label: 'Note', required: false, hint: 'Optional', aliases: ['notes', 'remark', 'remarks', 'comment'] },
@@ -66,11 +70,15 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
     if (stamp && !welder)
       findings.add(row.line, cols.header('stamp'), `No welder with stamp ${stamp} in your company; import or add the welder first`);
     const dateText = cols.get(row, 'date');
-    const day = parseDay(dateText, ctx.dateFormat);
-    const month = day ? null : parseMonth(dateText);
-    const usedOn = day ?? month;
+    const usedOn = parseDay(dateText, ctx.dateFormat);
     if (dateText && !usedOn)
-      findings.add(row.line, cols.header('date'), `“${dateText}” is not a date as ${dateHint[ctx.dateFormat]}, nor a month as YYYY-MM`);
+      findings.add(
+        row.line,
+        cols.header('date'),
+        parseMonth(dateText)
+          ? `“${dateText}” is a month: give the day of use (a month alone cannot show the use came before a lapse in that month)`
+          : `“${dateText}” is not a date as ${dateHint[ctx.dateFormat]}`,
+      );
     if (usedOn && usedOn > ctx.today) findings.add(row.line, cols.header('date'), `${usedOn} is in the future`);
     const shopText = cols.get(row, 'shop');
     const shopId = shopText ? shopByKey.get(shopText.toLowerCase())?.id : welder?.homeShopId;
@@ -141,7 +149,10 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
                   AS u(welder_id, shop_id, process, month, used_on, job, note)
            ON CONFLICT ON CONSTRAINT continuity_entries_cell_key DO UPDATE
               SET used_on = EXCLUDED.used_on, job_reference = EXCLUDED.job_reference, note = EXCLUDED.note,
-                  logged_by = EXCLUDED.logged_by, updated_at = now(), version = e.version + 1
+                  logged_by = EXCLUDED.logged_by, updated_at = now(), version = e.version + 1,
+                  -- A reviewed entry that is changed is a new statement of fact: it waits for review again.
+                  review_status = CASE WHEN e.review_status = 'reviewed' THEN 'pending' ELSE e.review_status END,
+                  review_decision = NULL
             WHERE (e.used_on, e.job_reference, e.note) IS DISTINCT FROM (EXCLUDED.used_on, EXCLUDED.job_reference, EXCLUDED.note)`,
           [
             actor.organizationId,
@@ -161,7 +172,7 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
       // The continuity state of every touched (welder, process), refreshed once, set-based.
       await tick('refreshing continuity', done, writes.length);
       const pairs = [...new Map(writes.map((c) => [`${c.welderId}|${c.process}`, { welderId: c.welderId, process: c.process }])).values()];
-      await refreshContinuityPairs(db, pairs);
+      await recordLapseMoves(db, await refreshContinuityPairs(db, pairs), ctx.clock);
       return { written: writes.length, pairs: pairs.length };
     },
   };

@@ -4,6 +4,7 @@ import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import type { ImportDateFormat, ImportField, ImportMapping, ImportReport } from '@beadroll/rules';
 import type { Actor } from '../lib/scope.js';
+import type { Clock } from '../lib/context.js';
 import type { Sheet, SheetRow } from './spreadsheet.js';
 
 export const MAX_ISSUES = 500;
@@ -19,6 +20,8 @@ export interface PlanContext {
   dateFormat: ImportDateFormat;
   /** Today in the company's calendar (ISO day). */
   today: string;
+  /** The clock lapse notices are dated by. */
+  clock: Clock;
 }
 
 /** Called between batches while writing: reports progress and throws if the import was cancelled. */

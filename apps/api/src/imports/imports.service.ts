@@ -127,6 +127,7 @@ const planContext = async (deps: AppDeps, actor: Actor, db: PlanContext['db'], s
   dateFormat: input.dateFormat,
   // The company's own day: a date of use is "in the future" by its clock, not the server's.
   today: await companyToday(db, actor, deps.clock),
+  clock: deps.clock,
 });
 
 /** The dry run: nothing is written but the report and the company's mapping for this kind. */
