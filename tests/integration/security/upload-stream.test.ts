@@ -3,7 +3,6 @@
 // broken-off upload leaves no row and no object.
 import http from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { Transform } from 'node:stream';
 import { deflateSync } from 'node:zlib';
 import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -11,7 +10,7 @@ import { uploadSchema } from '@beadroll/rules';
 import { binaryBody } from '../../support/api-records.js';
 import { bodyOf, errorOf, signIn, startTestApi, type TestApi } from '../../support/api-app.js';
 import { makeWorld, TEST_PASSWORD } from '../../support/factories.js';
-import type { Storage } from '../../../apps/api/src/lib/storage.js';
+import { watchStreamedUploads, type Taken } from '../../support/storage-watch.js';
 
 const MB = 1024 * 1024;
 const latin1 = (s: string) => Buffer.from(s, 'latin1');
@@ -31,7 +30,7 @@ describe('uploads stream to the object store', () => {
   let api: TestApi;
   let s3: S3Client;
   /** Bytes the object store has taken from each streamed upload so far, by key; and whether it ended. */
-  const taken = new Map<string, { bytes: number; settled: boolean }>();
+  let taken: Map<string, Taken>;
   beforeAll(async () => {
     api = await startTestApi();
     const c = api.config.s3;
@@ -41,29 +40,7 @@ describe('uploads stream to the object store', () => {
       forcePathStyle: c.forcePathStyle,
       credentials: { accessKeyId: c.accessKeyId, secretAccessKey: c.secretAccessKey },
     });
-    // Watch the bytes the store reads from each upload (the app and the test share this Storage object).
-    const storage: Storage = api.deps.storage;
-    const putStream = storage.putStream.bind(storage);
-    storage.putStream = (key, body, contentType) => {
-      const seen = { bytes: 0, settled: false };
-      taken.set(key, seen);
-      const counter = new Transform({
-        transform(chunk: Buffer, _enc, cb) {
-          seen.bytes += chunk.length;
-          cb(null, chunk);
-        },
-      });
-      body.on('error', (err) => counter.destroy(err));
-      body.on('close', () => {
-        if (!body.readableEnded) counter.destroy();
-      });
-      const put = putStream(key, body.pipe(counter), contentType);
-      put.done.then(
-        () => (seen.settled = true),
-        () => (seen.settled = true),
-      );
-      return put;
-    };
+    taken = watchStreamedUploads(api.deps.storage);
   });
   afterAll(async () => {
     s3.destroy();

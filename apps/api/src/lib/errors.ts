@@ -80,7 +80,11 @@ export function isDatabaseUnavailable(err: unknown): boolean {
   const e = err as Error & { code?: string; driverError?: { code?: string } };
   if (e.code && unavailableCodes.has(e.code)) return true;
   if (e.driverError?.code && unavailableCodes.has(e.driverError.code)) return true;
-  return /Connection terminated|connect ECONNREFUSED|timeout exceeded when trying to connect|Driver not Connected|Cannot use a pool after calling end/i.test(
+  // TypeORM releases a transaction's connection when the server drops it; the next statement of that
+  // transaction then fails with QueryRunner(Provider)AlreadyReleasedError: the database went away too.
+  // (Still logged as a warning with the request id, as every 5xx is.)
+  if (e.name === 'QueryRunnerProviderAlreadyReleasedError' || e.name === 'QueryRunnerAlreadyReleasedError') return true;
+  return /Connection terminated|connect ECONNREFUSED|query runner (was )?already released|timeout exceeded when trying to connect|Driver not Connected|Cannot use a pool after calling end/i.test(
     e.message,
   );
 }

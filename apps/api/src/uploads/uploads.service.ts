@@ -231,7 +231,10 @@ export async function uploadContent(
   id: string,
 ): Promise<{ upload: Upload; body: Buffer }> {
   const row = await findOrThrow(deps, actor, id);
-  const { body } = await deps.storage.get(row.storageKey);
+  const { body } = await deps.storage.get(row.storageKey).catch((err: unknown) => {
+    deps.logger.error({ err, storageKey: row.storageKey }, 'could not read an upload');
+    throw storeDown();
+  });
   return { upload: repo.toUpload(row), body };
 }
 
