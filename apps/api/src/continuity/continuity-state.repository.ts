@@ -235,8 +235,6 @@ export interface LapseMove {
   welderId: string;
   process: string;
   code: string;
-  /** Set when the move is known to concern one qualification only (none today: moves are per pair). */
-  qualificationId?: string;
   before: string | null;
   after: string | null;
 }

@@ -52,12 +52,9 @@ export async function recordLapseMoves(db: EntityManager, moves: LapseMove[], cl
     const s = settings.get(organizationId);
     if (!s) continue;
     const today = todayIn(s.timeZone, now);
-    const quals = await repo.movedQualifications(
-      db,
-      organizationId,
-      today,
-      list.map((m) => ({ ...m, qualificationId: m.qualificationId ?? null })),
-    );
+    // A move is per pair: every qualification in force of the pair moves with it. (A revocation of one
+    // of them is not a lapse: its notices are dropped as superseded, never sent.)
+    const quals = await repo.movedQualifications(db, organizationId, today, list);
     const rows: { qualificationId: string; threshold: string; lapsesOn: string }[] = [];
     const oldest = addDays(today, -Math.max(...s.warnDays));
     for (const q of quals) {

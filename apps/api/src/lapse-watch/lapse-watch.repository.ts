@@ -153,27 +153,25 @@ export async function movedQualifications(
   db: EntityManager,
   organizationId: string,
   today: string,
-  moves: { welderId: string; process: string; code: string; qualificationId: string | null; before: string | null; after: string | null }[],
+  moves: { welderId: string; process: string; code: string; before: string | null; after: string | null }[],
 ): Promise<{ qualificationId: string; before: string | null; after: string; told: boolean }[]> {
   return db.query(
     `SELECT q.id AS "qualificationId", to_char(m.before, 'YYYY-MM-DD') AS before, to_char(m.after, 'YYYY-MM-DD') AS after,
             EXISTS (SELECT 1 FROM lapse_notices n JOIN notice_deliveries d ON d.notice_id = n.id
                      WHERE n.qualification_id = q.id AND n.lapses_on = m.before AND n.threshold <> 'restored'
                        AND d.status = 'sent') AS told
-       FROM unnest($2::uuid[], $3::text[], $4::text[], $5::uuid[], $6::date[], $7::date[])
-              AS m(welder_id, process, code, qualification_id, before, after)
+       FROM unnest($2::uuid[], $3::text[], $4::text[], $5::date[], $6::date[])
+              AS m(welder_id, process, code, before, after)
        JOIN qualifications q ON q.welder_id = m.welder_id AND q.process = m.process AND q.code = m.code
-                            AND (m.qualification_id IS NULL OR q.id = m.qualification_id)
        JOIN welders w ON w.id = q.welder_id
       WHERE q.organization_id = $1 AND w.active AND q.superseded_by_id IS NULL
-        AND (q.revoked_on IS NULL OR q.revoked_on > $8::date)
+        AND (q.revoked_on IS NULL OR q.revoked_on > $7::date)
         AND m.after IS NOT NULL`,
     [
       organizationId,
       moves.map((m) => m.welderId),
       moves.map((m) => m.process),
       moves.map((m) => m.code),
-      moves.map((m) => m.qualificationId),
       moves.map((m) => m.before),
       moves.map((m) => m.after),
       today,
