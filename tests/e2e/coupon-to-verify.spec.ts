@@ -175,7 +175,8 @@ describe('from the coupon to the Verify page', () => {
     expect(await stored.getByText(/asme-ix/).count()).toBe(0);
     // The examination is shown part by part with the verdict on each.
     await page.getByRole('region', { name: 'Guided bend tests' }).getByText('Accept', { exact: true }).first().waitFor();
-    await page.getByRole('img', { name: /Photo of Specimen 1 \(side\)/ }).waitFor();
+    // Specimens are stored with the marks stamped on them (S1, S2 for side bends).
+    await page.getByRole('img', { name: /Photo of S1/ }).waitFor();
 
     await page.getByRole('button', { name: 'Certify' }).click();
     const certify = page.getByRole('dialog', { name: /Certify PV-07/ });

@@ -2,7 +2,6 @@
 // filled in is said live (lengths as read, pipe OD and wall, the proposed bend specimens, the verdict and
 // the qualified ranges); saving sends the live verdict as claimedResult, and the server judges again.
 import {
-  criteriaIds,
   lengthBounds,
   processes,
   processNames,
@@ -25,12 +24,12 @@ import { codeNames } from '@/lib/codes';
 import { useRecordCoupon } from '../api/record-coupon';
 import {
   analyseDraft,
-  criteriaLabel,
   emptyDraft,
   fromProcedure,
   positionsOffered,
   errorFor,
   newSpecimen,
+  partsOf,
   setLabel,
   specimensOf,
   toRecordInput,
@@ -44,6 +43,7 @@ import { PipeSizeFields } from './pipe-size-fields';
 import { SizeField } from '@/components/ui/size-field';
 import { SpecimenEditor } from './specimen-editor';
 import { VerdictPanel } from './verdict-panel';
+import { CombinationLayers, FilletParts, NickBreaks, VisualFindings, VolumetricPart } from './examination-parts';
 
 
 const FIELD_WORDS: Record<string, string> = {
@@ -116,7 +116,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
     setDraft((d) => {
       const merged = { ...d, ...next };
       // Until the person picks the specimens, follow the proposal for the coupon as it now stands.
-      if (!merged.specimensChosen && merged.method === 'bend') {
+      if (!merged.specimensChosen && partsOf(merged).bend) {
         const proposal = analyseDraft(merged).proposal;
         const first = proposal?.known ? proposal.options[0] : undefined;
         if (first && setLabel(first) !== setLabel(summarise(merged.specimens))) merged.specimens = specimensOf(first);
@@ -154,6 +154,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
   };
 
   const summary = Object.entries(errors);
+  const parts = partsOf(draft);
   const vertical = analysis.ranges ? analysis.ranges.positions.groove.includes('V') || analysis.ranges.positions.fillet.includes('V') : false;
 
   return (
@@ -330,23 +331,23 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               <option value="accept">Accept</option>
               <option value="reject">Reject</option>
             </SelectField>
-            <SelectField label="Examined by" value={draft.method} onChange={(e) => change({ method: e.target.value as CouponDraft['method'] }, 'examination', 'claimedResult')}>
-              <option value="bend">Guided bend tests</option>
-              <option value="radiography">Radiography</option>
-              <option value="ultrasonic">Ultrasonic examination</option>
-            </SelectField>
-            {draft.method === 'bend' && (
-              <SelectField label="Acceptance criteria" value={draft.criteria} error={errorFor(errors, 'examination.criteria')} onChange={(e) => change({ criteria: e.target.value as CouponDraft['criteria'] }, 'examination.criteria', 'claimedResult')}>
-                {criteriaIds.map((id) => (
-                  <option key={id} value={id}>
-                    {criteriaLabel(id)}
-                  </option>
-                ))}
+            {draft.visual !== '' && <VisualFindings draft={draft} errors={errors} change={change} />}
+            {!parts.fillet && (
+              <SelectField label="Examined by" value={draft.method} hint={draft.code === 'api-1104' && draft.method === 'bend' ? 'API 1104 welder tests are nick-broken as well as bent.' : undefined} onChange={(e) => change({ method: e.target.value as CouponDraft['method'] }, 'examination', 'claimedResult')}>
+                <option value="bend">Guided bend tests</option>
+                <option value="radiography">Radiography in place of bends</option>
+                <option value="ultrasonic">Ultrasonic examination in place of bends</option>
+              </SelectField>
+            )}
+            {parts.bend && (
+              <SelectField label="In-house criteria" value={draft.criteria === 'shop-general' ? 'shop-general' : ''} hint="The code's own criteria always apply; an in-house set can only add to them." error={errorFor(errors, 'examination.criteria') ?? errorFor(errors, 'examination.additionalCriteria')} onChange={(e) => change({ criteria: e.target.value === 'shop-general' ? 'shop-general' : draft.code || 'asme-ix' }, 'examination.criteria', 'claimedResult')}>
+                <option value="">None: the code's criteria only</option>
+                <option value="shop-general">Shop practice, in addition to the code's</option>
               </SelectField>
             )}
           </div>
 
-          {draft.method === 'bend' ? (
+          {parts.bend && (
             <div className="mt-4 space-y-3">
               {analysis.proposal && (
                 <div className="rounded-md border border-accent-200 bg-accent-50 px-3 py-2 text-sm text-accent-800">
@@ -394,19 +395,26 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
                 ))}
               </div>
             </div>
-          ) : (
-            <div className="mt-4 grid gap-3 sm:grid-cols-2">
-              <SelectField label={`${draft.method === 'radiography' ? 'Radiography' : 'Ultrasonic'} result`} value={draft.volumetricResult} error={errorFor(errors, 'examination.volumetric.examinerResult')} onChange={(e) => change({ volumetricResult: e.target.value as CouponDraft['volumetricResult'] }, 'examination.volumetric.examinerResult', 'claimedResult')}>
-                <option value="">Choose…</option>
-                <option value="accept">Accept</option>
-                <option value="reject">Reject</option>
-              </SelectField>
-              <TextField label="Examination report number" value={draft.reportNumber} error={errorFor(errors, 'examination.volumetric.reportNumber')} onChange={(e) => change({ reportNumber: e.target.value }, 'examination.volumetric.reportNumber')} />
-              <div className="sm:col-span-2">
-                <UploadInput label="Examination report" kind="examination-report" value={draft.report} error={errorFor(errors, 'examination.volumetric.reportUploadId')} onChange={(report) => change({ report }, 'examination.volumetric.reportUploadId')} hint="PDF or image, up to 15 MB." />
-              </div>
-            </div>
           )}
+          {parts.volumetric && (
+            <>
+              <VolumetricPart draft={draft} errors={errors} change={change} />
+              <div className="mt-3 grid gap-3 sm:grid-cols-2">
+                <SelectField label="Verdict of the examination report" value={draft.volumetricResult} hint="Optional; a reject on the report always rejects." error={errorFor(errors, 'examination.volumetric.examinerResult')} onChange={(e) => change({ volumetricResult: e.target.value as CouponDraft['volumetricResult'] }, 'examination.volumetric.examinerResult', 'claimedResult')}>
+                  <option value="">Not recorded</option>
+                  <option value="accept">Accept</option>
+                  <option value="reject">Reject</option>
+                </SelectField>
+                <TextField label="Examination report number" value={draft.reportNumber} error={errorFor(errors, 'examination.volumetric.reportNumber')} onChange={(e) => change({ reportNumber: e.target.value }, 'examination.volumetric.reportNumber')} />
+                <div className="sm:col-span-2">
+                  <UploadInput label="Examination report" kind="examination-report" value={draft.report} error={errorFor(errors, 'examination.volumetric.reportUploadId')} onChange={(report) => change({ report }, 'examination.volumetric.reportUploadId')} hint="PDF or image, up to 15 MB." />
+                </div>
+              </div>
+            </>
+          )}
+          {parts.fillet && <FilletParts draft={draft} errors={errors} change={change} />}
+          {parts.nickBreak && <NickBreaks draft={draft} errors={errors} change={change} hint={parts.bend ? analysis.proposal?.text : undefined} />}
+          <CombinationLayers draft={draft} errors={errors} change={change} />
           <TextField label="Notes" wrapperClassName="mt-3" value={draft.notes} error={errorFor(errors, 'notes')} onChange={(e) => change({ notes: e.target.value }, 'notes')} />
         </Section>
       </div>

@@ -36,7 +36,7 @@ export function VerdictPanel({ analysis }: { analysis: Pick<DraftAnalysis, 'verd
           </ul>
         )}
         {verdict === 'accept' && reasons.length === 0 && (
-          <p className="mt-2 text-sm text-stone-700">No discontinuity exceeds the criteria.</p>
+          <p className="mt-2 text-sm text-stone-700">Every part of the examination meets the criteria.</p>
         )}
         {notes.length > 0 && (
           <ul className="mt-3 space-y-1 text-xs text-stone-600">
@@ -50,7 +50,8 @@ export function VerdictPanel({ analysis }: { analysis: Pick<DraftAnalysis, 'verd
         )}
         {evaluation && (
           <p className="mt-3 text-xs text-stone-600">
-            Criteria: {evaluation.criteria.name} · {evaluation.criteria.clause} · {evaluation.criteria.source}
+            Judged by {evaluation.codeCriteria.name} ({evaluation.codeCriteria.clause}; {evaluation.codeCriteria.source})
+            {evaluation.additionalCriteria ? `, and in addition ${evaluation.additionalCriteria.name}` : ''}
           </p>
         )}
         <p className="mt-2 text-xs text-stone-500">{VERDICT_CAUTION}</p>

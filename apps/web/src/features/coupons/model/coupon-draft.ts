@@ -1,15 +1,14 @@
 // The coupon form's state and everything the browser computes from it while it is filled in: the
 // lengths read from what was typed, the pipe's OD and wall from NPS and schedule, the proposed bend
-// specimens, the live verdict (evaluateBendTest, the same rules the server runs) and the qualified
+// specimens, the live verdict (evaluateCoupon on the whole coupon, the same rules the server runs) and the qualified
 // ranges preview. Pure functions, so the component tests and the form agree on every answer.
 // Error keys are the API's dotted paths (coupon.thickness, examination.bend.specimens.0.discontinuities.1.size),
 // so a 400 from the server lands on the same fields as the live checks.
-import { codeNames } from '@/lib/codes';
+import { PART_NAMES } from './examination-words';
 import { firstMessage, readLength, type LengthRead } from '@/lib/lengths';
 import {
   couponRecordInput,
-  criteriaSets,
-  evaluateBendTest,
+  evaluateCoupon,
   fieldsOf,
   isFilletTest,
   positionTables,
@@ -20,8 +19,11 @@ import {
   proposeBendSpecimens,
   qualifiedRanges,
   RulesInputError,
-  type BendEvaluation,
   type BendSpecimenProposal,
+  type CouponEvaluation,
+  type CouponEvaluationInput,
+  type IndicationType,
+  type VisualFindingType,
   type CodeId,
   type CouponInput,
   type CouponRecordInput,
@@ -60,6 +62,33 @@ export interface SpecimenDraft {
   photo: Upload | null;
 }
 
+export interface FindingDraft {
+  key: string;
+  type: VisualFindingType | '';
+  sizeText: string;
+}
+
+export interface IndicationDraft {
+  key: string;
+  type: IndicationType | '';
+  sizeText: string;
+}
+
+export interface NickBreakDraft {
+  key: string;
+  examined: boolean;
+  /** The fracture shows complete penetration and fusion. */
+  sound: 'yes' | 'no' | '';
+  /** Greatest dimension of each gas pocket, separated by commas ('1/16, 1 mm'). */
+  gasPocketsText: string;
+}
+
+export interface LayerDraft {
+  key: string;
+  process: Process | '';
+  depositedText: string;
+}
+
 export interface CouponDraft {
   welderId: string;
   shopId: string;
@@ -86,14 +115,26 @@ export interface CouponDraft {
   examinerCertificate: string;
   labReportNumber: string;
   visual: 'accept' | 'reject' | '';
+  visualFindings: FindingDraft[];
   method: 'bend' | 'radiography' | 'ultrasonic';
   criteria: CriteriaId;
   /** False until the person changes the set of specimens; until then the form follows the proposal. */
   specimensChosen: boolean;
   specimens: SpecimenDraft[];
   volumetricResult: 'accept' | 'reject' | '';
+  /** The radiographs or the ultrasonic record are read and every indication entered. */
+  volumetricExamined: boolean;
+  indications: IndicationDraft[];
   reportNumber: string;
   report: Upload | null;
+  /** Fillet coupons: the fillet weld break and the macro-etch section. */
+  filletBreak: { examined: boolean; bentFlat: 'yes' | 'no' | ''; crack: boolean; incompleteRootFusion: boolean; inclusionsText: string };
+  macro: { examined: boolean; completeFusion: 'yes' | 'no' | ''; crack: boolean; leg1Text: string; leg2Text: string; convexityText: string; concavityText: string };
+  /** API 1104: nick-break specimens, besides the bends. */
+  nickBreaks: NickBreakDraft[];
+  /** A combination coupon: each process with the weld metal it deposited, root first (QW-306). */
+  combination: boolean;
+  layers: LayerDraft[];
   notes: string;
 }
 
@@ -107,6 +148,11 @@ export const newDiscontinuity = (): DiscontinuityDraft => ({
   type: '',
   fusionRelated: false,
 });
+
+export const newFinding = (): FindingDraft => ({ key: newKey(), type: '', sizeText: '' });
+export const newIndication = (): IndicationDraft => ({ key: newKey(), type: '', sizeText: '' });
+export const newNickBreak = (): NickBreakDraft => ({ key: newKey(), examined: false, sound: '', gasPocketsText: '' });
+export const newLayer = (process: Process | '' = ''): LayerDraft => ({ key: newKey(), process, depositedText: '' });
 
 export const newSpecimen = (kind: SpecimenKind): SpecimenDraft => ({ key: newKey(), kind, examined: false, discontinuities: [], photo: null });
 
@@ -153,13 +199,21 @@ export function emptyDraft(prefill: DraftPrefill = {}): CouponDraft {
     examinerCertificate: '',
     labReportNumber: '',
     visual: '',
+    visualFindings: [],
     method: 'bend',
     criteria: code || 'asme-ix',
     specimensChosen: false,
     specimens: [],
     volumetricResult: '',
+    volumetricExamined: false,
+    indications: [],
     reportNumber: '',
     report: null,
+    filletBreak: { examined: false, bentFlat: '', crack: false, incompleteRootFusion: false, inclusionsText: '' },
+    macro: { examined: false, completeFusion: '', crack: false, leg1Text: '', leg2Text: '', convexityText: '', concavityText: '' },
+    nickBreaks: [],
+    combination: false,
+    layers: [],
     notes: '',
   };
 }
@@ -180,15 +234,6 @@ export const fromProcedure = (p: Pick<Procedure, 'pNumbers' | 'fNumber'>): Pick<
   pNumbersText: p.pNumbers.join(', '),
   fNumberText: p.fNumber === null ? '' : String(p.fNumber),
 });
-
-/** 'ASME IX bend criteria (QW-163)', 'API 1104 bend criteria': the code once, and its clause only when it adds a number. */
-export function criteriaLabel(id: CriteriaId): string {
-  const set = criteriaSets[id];
-  if (id === 'shop-general') return set.name;
-  const code = codeNames[id];
-  const rest = set.clause.startsWith(code) ? set.clause.slice(code.length).trim() : set.clause;
-  return /\d/.test(rest) ? `${code} bend criteria (${rest})` : `${code} bend criteria`;
-}
 
 // ---- reading what was typed ---------------------------------------------------------------------
 
@@ -325,7 +370,8 @@ export interface DraftAnalysis {
   missing: string[];
   ranges: QualifiedRanges | null;
   proposal: BendSpecimenProposal | null;
-  evaluation: BendEvaluation | null;
+  /** The whole examination as the rules judge it (the same evaluateCoupon the server runs). */
+  evaluation: CouponEvaluation | null;
   /** The verdict the form would claim; null while the examination is incomplete. */
   verdict: Verdict | null;
   reasons: VerdictReason[];
@@ -334,14 +380,132 @@ export interface DraftAnalysis {
   incomplete: string | null;
   /** No verdict because the visual examination or a specimen is not examined yet (not for a typing error). */
   notExamined: boolean;
-  /** Each discontinuity's size as read, by its key. */
+  /** Each size typed in the examination (discontinuities, findings, indications…) as read, by its key. */
   sizes: Record<string, ParsedLength>;
+  /** The examination as the request sends it (sizes as typed and as read). */
+  examination: Record<string, unknown>;
 }
 
 const KIND_WORDS: Record<SpecimenKind, string> = { face: 'face', root: 'root', side: 'side' };
 export const specimenLabel = (s: { kind: SpecimenKind }, index: number): string => `Specimen ${index + 1} (${KIND_WORDS[s.kind]})`;
 
-const RANK: Record<Verdict, number> = { accept: 0, 'replace-specimen': 1, reject: 2 };
+/** Which parts of the examination the form records for this coupon. */
+export function partsOf(d: Pick<CouponDraft, 'weld' | 'position' | 'method' | 'code'>) {
+  const fillet = d.weld === 'fillet' || /F$|FR$/i.test(d.position.trim());
+  return {
+    fillet,
+    bend: !fillet && d.method === 'bend',
+    volumetric: !fillet && d.method !== 'bend',
+    nickBreak: !fillet && d.code === 'api-1104',
+  };
+}
+
+/** A list of sizes typed with commas or semicolons ('1/16, 1 mm'), each read; errors at the field. */
+function readList(text: string, at: string, errors: Errors): Length[] {
+  const out: Length[] = [];
+  text
+    .split(/[;,]/)
+    .map((t) => t.trim())
+    .filter(Boolean)
+    .forEach((t) => {
+      const read = readLength(t, { bounds: lengthBounds.discontinuity });
+      if (read?.ok) out.push(plain(read.length));
+      else if (read) errors[at] ??= `${t}: ${read.error}`;
+    });
+  return out;
+}
+
+/** Reads one typed size into `sizes`; an unreadable one is an error at its field. */
+function readInto(text: string, key: string, at: string, errors: Errors, sizes: Record<string, ParsedLength>, positive = false): Length | undefined {
+  const read = readLength(text, { positive, bounds: lengthBounds.discontinuity });
+  if (read === null) return undefined;
+  if (!read.ok) {
+    errors[at] = read.error;
+    return undefined;
+  }
+  sizes[key] = read.length;
+  return plain(read.length);
+}
+
+/** The examination as recorded: what the request sends, and what evaluateCoupon reads. */
+function examinationOf(d: CouponDraft, errors: Errors, sizes: Record<string, ParsedLength>) {
+  const parts = partsOf(d);
+  // the code's own criteria always; an in-house set only in addition (never instead)
+  const ex: Record<string, unknown> = {
+    criteria: d.code || undefined,
+    ...(d.criteria === 'shop-general' ? { additionalCriteria: 'shop-general' } : {}),
+  };
+  const unread: string[] = [];
+  if (parts.bend) {
+    ex.bend = {
+      specimens: d.specimens.map((s, i) => ({
+        // the mark on the specimen: F1, R2, S1 (kind and place in the set)
+        label: `${s.kind[0]?.toUpperCase() ?? ''}${i + 1}`,
+        kind: s.kind,
+        photoUploadId: s.photo?.id ?? null,
+        discontinuities: s.discontinuities.map((disc, j) => {
+          const at = `examination.bend.specimens.${i}.discontinuities.${j}.sizeText`;
+          const size = readInto(disc.sizeText, disc.key, at, errors, sizes);
+          if (!size) unread.push(`${specimenLabel(s, i)}, discontinuity ${j + 1}: ${disc.sizeText.trim() ? 'the size does not read as a length' : 'enter its size'}.`);
+          return {
+            sizeText: disc.sizeText.trim(),
+            size,
+            location: disc.location,
+            fusionRelated: disc.fusionRelated,
+            ...(disc.type ? { type: disc.type } : {}),
+          };
+        }),
+      })),
+    };
+  }
+  if (parts.volumetric)
+    ex.volumetric = {
+      method: d.method,
+      indications: d.indications.map((x, i) => {
+        const size = readInto(x.sizeText, x.key, `examination.volumetric.indications.${i}.size`, errors, sizes, true);
+        if (!size || !x.type) unread.push(`Indication ${i + 1}: ${x.type ? 'enter its size' : 'choose its type'}.`);
+        return { type: x.type || undefined, size };
+      }),
+      examinerResult: d.volumetricResult || undefined,
+      ...(d.reportNumber.trim() ? { reportNumber: d.reportNumber.trim() } : {}),
+      reportUploadId: d.report?.id ?? null,
+    };
+  if (parts.fillet && d.filletBreak.examined)
+    ex.filletBreak = {
+      bentFlat: d.filletBreak.bentFlat === '' ? undefined : d.filletBreak.bentFlat === 'yes',
+      crack: d.filletBreak.crack,
+      incompleteRootFusion: d.filletBreak.incompleteRootFusion,
+      inclusions: readList(d.filletBreak.inclusionsText, 'examination.filletBreak.inclusions', errors),
+    };
+  if (parts.fillet && d.macro.examined) {
+    const m = d.macro;
+    const leg1 = readInto(m.leg1Text, 'macro.leg1', 'examination.macroEtch.legs.0', errors, sizes, true);
+    const leg2 = readInto(m.leg2Text, 'macro.leg2', 'examination.macroEtch.legs.1', errors, sizes, true);
+    const convexity = readInto(m.convexityText, 'macro.convexity', 'examination.macroEtch.convexity', errors, sizes);
+    const concavity = readInto(m.concavityText, 'macro.concavity', 'examination.macroEtch.concavity', errors, sizes);
+    ex.macroEtch = {
+      completeFusion: m.completeFusion === '' ? undefined : m.completeFusion === 'yes',
+      crack: m.crack,
+      ...(leg1 && leg2 ? { legs: [leg1, leg2] } : {}),
+      ...(convexity ? { convexity } : {}),
+      ...(concavity ? { concavity } : {}),
+    };
+  }
+  if (parts.nickBreak && d.nickBreaks.length > 0)
+    ex.nickBreak = {
+      specimens: d.nickBreaks.map((n, i) => ({
+        id: `Nick-break ${i + 1}`,
+        completePenetrationAndFusion: n.sound === '' ? undefined : n.sound === 'yes',
+        gasPockets: readList(n.gasPocketsText, `examination.nickBreak.specimens.${i}.gasPockets`, errors),
+      })),
+    };
+  if (d.combination)
+    ex.layers = d.layers.map((l, i) => ({
+      process: l.process || undefined,
+      depositedThickness: readInto(l.depositedText, `layer.${l.key}`, `examination.layers.${i}.depositedThickness`, errors, sizes, true),
+    }));
+  return { ex, unread };
+}
 
 function proposalFor(d: CouponDraft, build: CouponBuild): BendSpecimenProposal | null {
   if (!d.code || !d.position || d.weld !== 'groove') return null;
@@ -354,6 +518,26 @@ function proposalFor(d: CouponDraft, build: CouponBuild): BendSpecimenProposal |
     if (error instanceof RulesInputError) return null;
     throw error;
   }
+}
+
+/** What is not yet examined, in the order the examination goes; null when everything is. */
+function notYetExamined(d: CouponDraft): string | null {
+  if (d.visual === '') return 'Record the visual examination; it comes first.';
+  const parts = partsOf(d);
+  if (parts.bend) {
+    const i = d.specimens.findIndex((s) => !s.examined);
+    const s = d.specimens[i];
+    if (s) return `Mark each specimen examined once it is bent and looked at (${specimenLabel(s, i)} is not).`;
+  }
+  if (parts.volumetric && !d.volumetricExamined)
+    return `Mark the ${d.method === 'radiography' ? 'radiographs' : 'ultrasonic record'} examined once every indication is entered.`;
+  if (parts.fillet && !d.filletBreak.examined) return 'Mark the fillet weld break examined once the specimen is broken and looked at.';
+  if (parts.fillet && !d.macro.examined && (d.code === 'asme-ix' || d.code === 'aws-d1.1')) return 'Mark the macro-etch examined once the section is etched and looked at.';
+  if (parts.nickBreak) {
+    const i = d.nickBreaks.findIndex((n) => !n.examined);
+    if (i >= 0) return `Mark each nick-break examined once it is broken and looked at (Nick-break ${i + 1} is not).`;
+  }
+  return null;
 }
 
 export function analyseDraft(d: CouponDraft): DraftAnalysis {
@@ -371,99 +555,57 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
     }
   }
 
-  let evaluation: BendEvaluation | null = null;
-  let exam: Verdict | null = null;
+  const findings = d.visualFindings.map((f, i) => {
+    const size = readInto(f.sizeText, f.key, `visual.findings.${i}.size`, errors, sizes);
+    return { type: f.type || undefined, ...(size ? { size } : {}) };
+  });
+  const { ex, unread } = examinationOf(d, errors, sizes);
+
+  let evaluation: CouponEvaluation | null = null;
   let incomplete: string | null = null;
   const reasons: VerdictReason[] = [];
   const notes: VerdictReason[] = [];
+  const waiting = notYetExamined(d);
 
-  if (d.method === 'bend') {
-    let readable = true;
-    d.specimens.forEach((s, i) =>
-      s.discontinuities.forEach((disc, j) => {
-        const read = readLength(disc.sizeText, { bounds: lengthBounds.discontinuity });
-        if (read?.ok) sizes[disc.key] = read.length;
-        else {
-          readable = false;
-          if (read && !read.ok) errors[`examination.bend.specimens.${i}.discontinuities.${j}.sizeText`] = read.error;
-          incomplete ??= `${specimenLabel(s, i)}, discontinuity ${j + 1}: ${read ? 'the size does not read as a length' : 'enter its size'}.`;
-        }
-      }),
-    );
-    if (d.specimens.length === 0) incomplete = 'Add the bend specimens to see the evaluation.';
-    else if (readable) {
-      try {
-        evaluation = evaluateBendTest({
-          criteria: d.criteria,
-          ...(build.thickness ? { wallThickness: build.thickness } : {}),
-          specimens: d.specimens.map((s) => ({
-            kind: s.kind,
-            discontinuities: s.discontinuities.map((disc) => {
-              const size = sizes[disc.key];
-              return {
-                size: size ? plain(size) : { value: 0, unit: 'in' as const },
-                location: disc.location,
-                fusionRelated: disc.fusionRelated,
-                ...(disc.type ? { type: disc.type } : {}),
-              };
-            }),
-          })),
-        });
-        // a short or mixed specimen set has no verdict yet (never an accept)
-        if (evaluation.result === 'incomplete') incomplete = evaluation.completeness[0]?.message ?? 'The specimen set is incomplete.';
-        else exam = evaluation.result;
-        evaluation.specimens.forEach((e, i) => {
-          const s = d.specimens[i];
-          const where = s ? specimenLabel(s, i) : `Specimen ${i + 1}`;
-          e.reasons.forEach((r) => reasons.push({ ...r, where }));
-          e.notes.forEach((r) => notes.push({ ...r, where }));
-        });
-      } catch (error) {
-        if (!(error instanceof RulesInputError)) throw error;
-        if (error.fields.wallThickness) {
-          errors['coupon.thickness'] ??= error.fields.wallThickness;
-          incomplete = error.fields.wallThickness;
-        } else {
-          Object.assign(errors, prefixed('examination', error.fields));
-          incomplete = firstMessage(error);
-        }
-      }
-    }
-  } else if (d.volumetricResult) {
-    exam = d.volumetricResult;
-    if (exam === 'reject')
-      reasons.push({
-        clause: `${d.method === 'radiography' ? 'Radiographic' : 'Ultrasonic'} examination report`,
-        message: `${d.method === 'radiography' ? 'Radiographic' : 'Ultrasonic'} examination rejected${d.reportNumber ? ` (report ${d.reportNumber})` : ''}`,
-        where: null,
+  if (d.visual !== '' && findings.some((f) => !f.type)) incomplete = 'Choose the type of each visual finding.';
+  else if (partsOf(d).bend && d.specimens.length === 0 && d.visual !== 'reject') incomplete = 'Add the bend specimens to see the evaluation.';
+  else if (unread[0] && d.visual !== 'reject') incomplete = unread[0];
+  else if (!build.coupon || ranges === null) incomplete = build.missing.length > 0 ? `Enter ${build.missing.join(', ')} to see the evaluation.` : 'Fix the fields marked in red to see the evaluation.';
+  else if (d.visual !== '' && (waiting === null || d.visual === 'reject')) {
+    try {
+      evaluation = evaluateCoupon({
+        ...(ex as Omit<CouponEvaluationInput, 'coupon' | 'visual'>),
+        coupon: build.coupon,
+        visual: { result: d.visual, findings: findings as NonNullable<CouponEvaluationInput['visual']['findings']> },
       });
-  } else {
-    incomplete = `Record the ${d.method === 'radiography' ? 'radiography' : 'ultrasonic examination'} result to see the evaluation.`;
+    } catch (error) {
+      if (!(error instanceof RulesInputError)) throw error;
+      for (const [k, v] of Object.entries(error.fields)) {
+        const key = k === '' ? 'examination' : /^(coupon|visual)(\.|$)/.test(k) ? k : `examination.${k}`;
+        errors[key] ??= v;
+      }
+      incomplete = firstMessage(error);
+    }
   }
 
-  // Nothing is judged before it is examined: the visual examination first, then every specimen.
-  const unexamined = d.method === 'bend' ? d.specimens.findIndex((s) => !s.examined) : -1;
-  let notExamined = false;
-  if (d.visual === '' || unexamined >= 0) {
-    notExamined = true;
-    exam = null;
-    const which = unexamined >= 0 ? d.specimens[unexamined] : undefined;
-    incomplete =
-      d.visual === ''
-        ? 'Record the visual examination; it comes first.'
-        : which
-          ? `Mark each specimen examined once it is bent and looked at (${specimenLabel(which, unexamined)} is not).`
-          : incomplete;
+  if (evaluation) {
+    for (const part of evaluation.parts) {
+      const name = PART_NAMES[part.kind];
+      if (part.kind === 'bend' && part.items) {
+        // the specimens' own reasons come first in the part's list, the set's completeness after them
+        part.items.forEach((item, i) => {
+          const s = d.specimens[i];
+          item.reasons.forEach((r) => reasons.push({ ...r, where: s ? specimenLabel(s, i) : name }));
+        });
+        const own = part.items.reduce((n, item) => n + item.reasons.length, 0);
+        part.reasons.slice(own).forEach((r) => reasons.push({ ...r, where: name }));
+      } else part.reasons.forEach((r) => reasons.push({ ...r, where: part.kind === 'visual' ? null : name }));
+      part.notes.forEach((r) => notes.push({ ...r, where: part.kind === 'visual' ? null : name }));
+    }
+    if (evaluation.result === 'incomplete') incomplete = reasons.map((r) => `${r.message} (${r.clause})`).join(' ') || 'The examination is incomplete.';
   }
-
-  let verdict = exam;
-  if (d.visual === 'reject') {
-    reasons.unshift({ clause: 'Visual examination', message: 'Visual examination rejected', where: null });
-    verdict = 'reject';
-    incomplete = null;
-    notExamined = false;
-  }
-  if (exam && verdict && RANK[exam] > RANK[verdict]) verdict = exam;
+  const verdict: Verdict | null = evaluation && evaluation.result !== 'incomplete' ? evaluation.result : null;
+  const notExamined = !verdict && waiting !== null && d.visual !== 'reject';
 
   return {
     errors,
@@ -474,9 +616,10 @@ export function analyseDraft(d: CouponDraft): DraftAnalysis {
     verdict,
     reasons,
     notes,
-    incomplete: verdict ? null : incomplete,
-    notExamined: verdict ? false : notExamined,
+    incomplete: verdict ? null : notExamined ? waiting : incomplete,
+    notExamined,
     sizes,
+    examination: ex,
   };
 }
 
@@ -493,11 +636,11 @@ export const setLabel = (set: BendSpecimenProposal['options'][number]): string =
 /** The body of POST /api/coupons, checked with its schema; or the errors to show before sending. */
 export function toRecordInput(d: CouponDraft, a: DraftAnalysis): { input: CouponRecordInput | null; errors: Errors } {
   const errors: Errors = { ...a.errors };
-  if (d.method === 'bend' && d.visual !== 'reject')
+  if (partsOf(d).bend && d.visual !== 'reject')
     d.specimens.forEach((s, i) => {
       if (!s.examined) errors[`examination.bend.specimens.${i}.examined`] = `Mark ${specimenLabel(s, i)} examined, or remove it`;
     });
-  if (d.method === 'bend')
+  if (partsOf(d).bend)
     d.specimens.forEach((s, i) =>
       s.discontinuities.forEach((disc, j) => {
         if (disc.sizeText.trim() === '') errors[`examination.bend.specimens.${i}.discontinuities.${j}.sizeText`] = 'Enter the size, or remove this discontinuity';
@@ -542,38 +685,16 @@ export function toRecordInput(d: CouponDraft, a: DraftAnalysis): { input: Coupon
       .filter(Boolean),
     examiner: { name: d.examinerName, certificateNumber: d.examinerCertificate },
     labReportNumber: d.labReportNumber,
-    visual: d.visual || undefined,
-    examination:
-      d.method === 'bend'
-        ? {
-            criteria: d.criteria,
-            bend: {
-              specimens: d.specimens.map((s, i) => ({
-                label: specimenLabel(s, i),
-                kind: s.kind,
-                photoUploadId: s.photo?.id ?? null,
-                discontinuities: s.discontinuities.map((disc) => {
-                  const size = a.sizes[disc.key];
-                  return {
-                    sizeText: disc.sizeText.trim(),
-                    size: size ? plain(size) : undefined,
-                    location: disc.location,
-                    fusionRelated: disc.fusionRelated,
-                    ...(disc.type ? { type: disc.type } : {}),
-                  };
-                }),
-              })),
-            },
-          }
-        : {
-            volumetric: {
-              method: d.method,
-              indications: [],
-              examinerResult: d.volumetricResult || undefined,
-              ...(d.reportNumber.trim() ? { reportNumber: d.reportNumber.trim() } : {}),
-              reportUploadId: d.report?.id ?? null,
-            },
-          },
+    visual: d.visual
+      ? {
+          result: d.visual,
+          findings: d.visualFindings.map((f) => {
+            const size = a.sizes[f.key];
+            return { type: f.type || undefined, ...(size ? { size: plain(size) } : {}) };
+          }),
+        }
+      : undefined,
+    examination: a.examination,
     ...(a.verdict ? { claimedResult: a.verdict } : {}),
     notes: d.notes,
   };
