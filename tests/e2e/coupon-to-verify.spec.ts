@@ -285,9 +285,10 @@ describe('from the coupon to the Verify page', () => {
     expect(new URL(page.url()).pathname).toBe(new URL(verifyUrl).pathname);
     await page.screenshot({ path: '/tmp/beadroll-verify.png', fullPage: true });
 
-    // A token that was never issued reads as an invalid card.
+    // A token that was never issued is not found — not reported as a revoked card.
     await page.goto('/verify/not-a-real-token-0000000000000000000000000');
-    await page.getByText('This card is no longer valid').waitFor();
+    await page.getByText('No card was found for this link').waitFor();
+    expect(await page.getByText('This card is no longer valid').count()).toBe(0);
     expect(pageErrors(page)).toEqual([]);
     await context.close();
   });

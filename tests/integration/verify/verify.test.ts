@@ -56,7 +56,7 @@ describe('the public verify page', () => {
     expect(row!.tokenHash).not.toContain(token);
   });
 
-  it('stops the old link after a reissue and after revocation; unknown tokens 404 with the card message', async () => {
+  it('stops the old link after a reissue and after revocation (410, no longer valid); a link never issued is 404, not found', async () => {
     const { qa, welder } = await welderWithQualification();
     const first = (
       (await qa.post(`/api/welders/${welder.id}/verify-token`).expect(201)).body as { url: string }
@@ -69,11 +69,24 @@ describe('the public verify page', () => {
       .split('/')
       .pop()!;
     const old = await request(api.app).get(`/api/verify/${first}`);
-    expect(old.status).toBe(404);
+    expect(old.status).toBe(410);
     expect(errorOf(old).message).toBe('This card is no longer valid');
     await request(api.app).get(`/api/verify/${second}`).expect(200);
     await qa.delete(`/api/welders/${welder.id}/verify-token`).expect(204);
-    expect((await request(api.app).get(`/api/verify/${second}`)).status).toBe(404);
+    expect((await request(api.app).get(`/api/verify/${second}`)).status).toBe(410);
+    // One character changed, cut short, or made up: not found — never reported as revoked (read from an
+    // instance of its own, as the checks above used up this one's allowance per address).
+    const fresh = await startTestApi();
+    try {
+      const typo = `${second.slice(0, -1)}${second.endsWith('A') ? 'B' : 'A'}`;
+      for (const token of [typo, second.slice(0, 20), 'x'.repeat(43)]) {
+        const res = await request(fresh.app).get(`/api/verify/${token}`);
+        expect(res.status).toBe(404);
+        expect(errorOf(res).message).toBe('No card was found for this link');
+      }
+    } finally {
+      await fresh.close();
+    }
     expect((await qa.get(`/api/welders/${welder.id}/verify-token`).expect(200)).body).toEqual({
       active: false,
       issuedAt: null,

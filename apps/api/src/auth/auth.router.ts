@@ -71,6 +71,16 @@ export function authRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
     res.json(await auth.getMe(deps, actorOf(req)));
   });
 
+  // Who is signed in, or nobody (200 either way): what the web app asks on opening, so a visitor
+  // without a session gets no 401 logged in the browser (issue 10, item 15). The same session check.
+  router.get('/auth/session', (req, res, next) => {
+    requireAuth(req, res, (err?: unknown) => {
+      if (err instanceof AppError && err.code === 'unauthenticated') return void res.json({ me: null });
+      if (err) return next(err);
+      auth.getMe(deps, actorOf(req)).then((me) => res.json({ me }), next);
+    });
+  });
+
   // The answer goes out before anything is looked up or mailed, so a real account and an unknown
   // address take the same time (issue 11, finding 7); requestPasswordReset logs its own failures.
   router.post('/auth/password-reset', resetLimiter, (req, res) => {

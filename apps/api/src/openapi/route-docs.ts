@@ -107,6 +107,7 @@ export const coreRouteDocs: RouteDoc[] = [
   { method: 'post', path: '/auth/login', summary: 'Sign in (sets the session cookie)', tag: 'Sign-in', access: 'public', body: loginInput, status: 200, response: meSchema },
   { method: 'post', path: '/auth/logout', summary: 'Sign out (clears the session cookie)', tag: 'Sign-in', access: 'public', status: 204, response: null },
   { method: 'get', path: '/me', summary: 'The caller', tag: 'Sign-in', access: 'any', status: 200, response: meSchema },
+  { method: 'get', path: '/auth/session', summary: 'Who is signed in, or nobody (never 401)', tag: 'Sign-in', access: 'public', status: 200, response: z.object({ me: meSchema.nullable() }) },
   { method: 'post', path: '/auth/password-reset', summary: 'Ask for a password-reset e-mail', tag: 'Sign-in', access: 'public', body: passwordResetRequestInput, status: 202, response: status('accepted') },
   { method: 'get', path: '/auth/tokens/:token', summary: 'What an invitation or reset link is for', tag: 'Sign-in', access: 'public', status: 200, response: tokenInfoSchema },
   { method: 'get', path: '/auth/sessions', summary: 'The caller’s signed-in browsers and devices', tag: 'Sign-in', access: 'session', status: 200, response: sessionListSchema },

@@ -7,7 +7,7 @@ import { todayIn } from '../lib/dates.js';
 import { preparedQuery } from '../lib/prepared.js';
 import { companyTimeZone } from '../settings/settings.repository.js';
 import { rangeSummary, welderQualificationsToday } from '../qualifications/qualifications.service.js';
-import { resolveVerifyToken } from './verify-tokens.service.js';
+import { hashToken, resolveVerifyToken } from './verify-tokens.service.js';
 
 export const verifyNotice = (company: string) =>
   `This page shows what ${company} has on record today. The code edition in force, ${company}'s quality manual and the responsible inspector govern; ask them before relying on it for a particular joint.`;
@@ -15,10 +15,22 @@ export const verifyNotice = (company: string) =>
 export const leftNotice = (company: string) =>
   `This welder is no longer with ${company}. ${company} no longer vouches for any qualification on this card; ask the welder's current employer.`;
 
+// A card whose link was revoked or replaced answers 410 Gone; a link that was never issued (mistyped,
+// cut short) 404 — the inspector is told which, never "revoked" for a typo (issue 10, item 9).
+const noLongerValid = () => new AppError('not_found', 'This card is no longer valid', 410);
+
+async function missingCard(deps: AppDeps, token: string): Promise<AppError> {
+  const issued =
+    /^[A-Za-z0-9_-]{43}$/.test(token) &&
+    (await deps.dataSource.manager.query<unknown[]>(`SELECT 1 FROM verify_tokens WHERE token_hash = $1`, [hashToken(token)]))
+      .length > 0;
+  return issued ? noLongerValid() : new AppError('not_found', 'No card was found for this link');
+}
+
 export async function verifyView(deps: AppDeps, token: string): Promise<VerifyView> {
   const db = deps.dataSource.manager;
   const found = await resolveVerifyToken(db, token, { evenIfLeft: true });
-  if (!found) throw new AppError('not_found', 'This card is no longer valid');
+  if (!found) throw await missingCard(deps, token);
   const rows = await preparedQuery<{ name: string; stamp: string; company: string; active: boolean; leftAt: Date | null }>(
     db,
     `SELECT w.name, w.stamp, o.name AS company, w.active, w.left_at AS "leftAt"
@@ -39,7 +51,7 @@ export async function verifyView(deps: AppDeps, token: string): Promise<VerifyVi
       qualifications: [],
       notice: leftNotice(welder.company),
     };
-  if (!found.live) throw new AppError('not_found', 'This card is no longer valid');
+  if (!found.live) throw noLongerValid();
   // Read as the company would: the token stands in for a signed-in reader of this one welder.
   const list = await welderQualificationsToday(
     deps,

@@ -7,6 +7,7 @@ import { LoadingState } from '@/components/ui/states';
 import { paths } from '@/config/paths';
 import { setUnauthenticatedHandler } from '@/lib/api-client';
 import { homeFor, meQuery, requireUser, returnPath } from '@/lib/auth';
+import { pageTitle } from './page-title';
 
 type RouteModule = { default: ComponentType };
 const page = (load: () => Promise<RouteModule>) => async () => ({ Component: (await load()).default });
@@ -24,13 +25,13 @@ export function createRouter(queryClient: QueryClient) {
       },
       lazy: page(() => import('./routes/auth/sign-in')),
     },
-    { path: paths.setPassword.path, lazy: page(() => import('./routes/auth/set-password')) },
-    { path: paths.forgotPassword.path, lazy: page(() => import('./routes/auth/forgot-password')) },
+    { path: paths.setPassword.path, hydrateFallbackElement: opening, lazy: page(() => import('./routes/auth/set-password')) },
+    { path: paths.forgotPassword.path, hydrateFallbackElement: opening, lazy: page(() => import('./routes/auth/forgot-password')) },
     { path: paths.devMail.path, lazy: page(() => import('./routes/dev/mail')) },
     { path: paths.devMailMessage.path, lazy: page(() => import('./routes/dev/mail-message')) },
     // The public Verify page: no sign-in and no shell, reached from the QR code on a wallet card.
-    { path: paths.verify.path, lazy: page(() => import('./routes/public/verify')) },
-    { path: paths.apiReference.path, lazy: page(() => import('./routes/public/api-reference')) },
+    { path: paths.verify.path, hydrateFallbackElement: opening, lazy: page(() => import('./routes/public/verify')) },
+    { path: paths.apiReference.path, hydrateFallbackElement: opening, lazy: page(() => import('./routes/public/api-reference')) },
     {
       id: 'app',
       path: '/',
@@ -89,6 +90,14 @@ export function AppRouter() {
     });
     return () => setUnauthenticatedHandler(null);
   }, [queryClient, router]);
+
+  useEffect(() => {
+    const name = () => {
+      document.title = pageTitle(router.state.location.pathname);
+    };
+    name();
+    return router.subscribe(name);
+  }, [router]);
 
   return <RouterProvider router={router} />;
 }

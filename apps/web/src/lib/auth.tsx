@@ -1,22 +1,21 @@
-// Who is signed in: the /api/me query, sign-in and sign-out, the guard of the signed-in part of the app,
+// Who is signed in: the session query, sign-in and sign-out, the guard of the signed-in part of the app,
 // and the role checks the shell and the screens share.
 import { loginInput, meSchema, type LoginInput, type Me, type Role } from '@beadroll/rules';
 import { queryOptions, useMutation, useQueryClient, useSuspenseQuery, type QueryClient } from '@tanstack/react-query';
 import { useRef } from 'react';
+import { z } from 'zod';
 import { redirect } from 'react-router-dom';
 import { paths } from '@/config/paths';
 import { ApiError, apiRequest, apiSend } from './api-client';
 
+// Asked of /api/auth/session, which answers 200 with nobody when there is no session: opening the
+// sign-in page logs no 401 in the browser's console.
+const sessionSchema = z.object({ me: meSchema.nullable() });
+
 export const meQuery = queryOptions({
   queryKey: ['auth', 'me'] as const,
-  queryFn: async ({ signal }): Promise<Me | null> => {
-    try {
-      return await apiRequest('/api/me', meSchema, { signal, redirectOn401: false });
-    } catch (error) {
-      if (error instanceof ApiError && error.status === 401) return null;
-      throw error;
-    }
-  },
+  queryFn: async ({ signal }): Promise<Me | null> =>
+    (await apiRequest('/api/auth/session', sessionSchema, { signal, redirectOn401: false })).me,
   staleTime: 5 * 60_000,
 });
 

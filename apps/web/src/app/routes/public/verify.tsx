@@ -11,7 +11,15 @@ import { ApiError } from '@/lib/api-client';
 import { codeNames } from '@/lib/codes';
 
 function Problem({ error, onRetry }: { error: unknown; onRetry: () => void }) {
+  // A link never issued (mistyped, cut short) is not a revoked card: the inspector is told which.
   if (error instanceof ApiError && error.status === 404)
+    return (
+      <div role="alert" className="rounded-lg border border-amber-200 bg-amber-50 px-4 py-6 text-amber-900">
+        <p className="text-lg font-bold">No card was found for this link</p>
+        <p className="mt-1 text-sm">Check that the whole address was scanned or typed. If it still fails, ask the welder&apos;s employer.</p>
+      </div>
+    );
+  if (error instanceof ApiError && error.status === 410)
     return (
       <div role="alert" className="rounded-lg border border-red-200 bg-red-50 px-4 py-6 text-red-900">
         <p className="text-lg font-bold">This card is no longer valid</p>
