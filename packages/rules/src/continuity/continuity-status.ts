@@ -242,11 +242,18 @@ function requirementEnd(req: Requirement, counting: CfrMonthCounting): { end: Is
   return best as { end: IsoDate; by: CheckState };
 }
 
+// The walk's hot path: the same as the earliest requirementEnd(...).end, without building objects.
 function lapseOf(reqs: Requirement[], counting: CfrMonthCounting): IsoDate {
-  let lapse = requirementEnd(reqs[0] as Requirement, counting).end;
-  for (let i = 1; i < reqs.length; i++)
-    lapse = minDate(lapse, requirementEnd(reqs[i] as Requirement, counting).end);
-  return lapse;
+  let lapse: IsoDate | null = null;
+  for (const req of reqs) {
+    let best: IsoDate | null = null;
+    for (const cs of req) {
+      const end = checkEnd(cs, counting);
+      if (end !== null && (best === null || end > best)) best = end;
+    }
+    if (best !== null && (lapse === null || best < lapse)) lapse = best;
+  }
+  return lapse as IsoDate;
 }
 
 function resolveProfile(p: z.output<typeof continuityInputSchema>): {
@@ -289,7 +296,7 @@ export function continuityStatus(input: ContinuityInput): ContinuityStatus {
   const reqs: Requirement[] = profile.requirements.map((r) => r.checks.map(newCheckState));
   const all: CheckState[] = reqs.flat();
   const count = (bit: number, date: IsoDate) => {
-    for (const cs of all) update(cs, bit, date);
+    for (let i = 0; i < all.length; i++) update(all[i] as CheckState, bit, date);
   };
   // The qualification test is the first evidence.
   count(TEST, p.qualifiedOn);

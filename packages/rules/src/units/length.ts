@@ -126,12 +126,34 @@ export type FormatLengthOptions = {
 };
 
 /** '3/16 in', '1-1/4 in', '0.154 in', '3 mm', '3.2 mm'. parseLength reads every result back. */
-export function formatLength(l: Length, options: FormatLengthOptions = {}): string {
+// Texts already made, per unit and options: every range, limit and verdict formats a handful of sizes, and
+// turning a double into its shortest decimal text is the dearest step of qualifiedRanges. Bounded: a
+// table that grows past MAX_FORMATTED entries starts again.
+const MAX_FORMATTED = 4096;
+const formatted: Array<Map<number, string> | undefined> = [];
+
+function formatUncached(l: Length, options: FormatLengthOptions): string {
   if (l.unit === 'in' && options.fractions !== false) {
     const f = inchFraction(l.value);
     if (f !== null) return `${f} in`;
   }
   return `${decimal(l.value, options.digits)} ${l.unit}`;
+}
+
+export function formatLength(l: Length, options: FormatLengthOptions = {}): string {
+  const { digits } = options;
+  if (digits !== undefined && !(Number.isInteger(digits) && digits >= 0 && digits <= 20))
+    return formatUncached(l, options);
+  const slot = (l.unit === 'in' ? 0 : 1) + (options.fractions === false ? 2 : 0) + 4 * (digits ?? 21);
+  let table = formatted[slot];
+  if (table === undefined) formatted[slot] = table = new Map();
+  let text = table.get(l.value);
+  if (text === undefined) {
+    if (table.size >= MAX_FORMATTED) table.clear();
+    text = formatUncached(l, options);
+    table.set(l.value, text);
+  }
+  return text;
 }
 
 /** A length in the other unit, for showing both ('3/16 in (4.76 mm)'). */
