@@ -50,7 +50,7 @@ function zoneNames(current: string): string[] {
   return known.includes(current) ? known : [current, ...known];
 }
 
-function SettingsForm({ settings }: { settings: CompanySettings }) {
+export function SettingsForm({ settings }: { settings: CompanySettings }) {
   const update = useUpdateSettings();
   const [warnDays, setWarnDays] = useState(settings.warnDays.join(', '));
   const [closedMonthAfter, setClosedMonthAfter] = useState(String(settings.closedMonthAfter));
@@ -61,6 +61,8 @@ function SettingsForm({ settings }: { settings: CompanySettings }) {
 
   const submit = (e: FormEvent) => {
     e.preventDefault();
+    // A new attempt: the last save's "Settings saved." must not stand beside this one's errors.
+    update.reset();
     const parsed = companySettingsInput.safeParse({
       warnDays: parseDays(warnDays),
       closedMonthAfter: /^\d+$/.test(closedMonthAfter.trim()) ? Number(closedMonthAfter) : Number.NaN,
@@ -120,7 +122,7 @@ function SettingsForm({ settings }: { settings: CompanySettings }) {
         </SelectField>
         <TextField
           label="Daily lapse-watch time"
-          hint="24-hour time in the company's time zone, HH:MM."
+          hint="The time of day in the company's time zone, as your browser shows times."
           type="time"
           value={lapseWatchTime}
           onChange={(e) => setLapseWatchTime(e.target.value)}
