@@ -80,6 +80,7 @@ Demo accounts (password demo-weld-2026):
   qa@beadroll-demo.example        QA manager, every shop
   foreman@beadroll-demo.example   foreman of Vessel Bay and Structural Hall
   welder@beadroll-demo.example    welder PV-07
+  other@beadroll-demo.example     QA manager of Dunmore Kettle Works (a second company)
 
 Computed ranges and statuses support, and do not replace, the code edition in force, the company's
 quality manual and the responsible inspector.
