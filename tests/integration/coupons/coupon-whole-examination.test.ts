@@ -6,7 +6,8 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { couponRecordSchema } from '@beadroll/rules';
 import { bodyOf, errorOf, signIn, startTestApi, type TestApi } from '../../support/api-app.js';
 import { makeWorld, TEST_PASSWORD } from '../../support/factories.js';
-import { couponBody, makeProcedure } from '../../support/api-records.js';
+import { binaryBody, couponBody, daysAgo, makeProcedure } from '../../support/api-records.js';
+import { readPdf } from '../../../apps/api/src/documents/__fixtures__/read-pdf.js';
 
 const inch = (value: number) => ({ value, unit: 'in' as const });
 const sound = (label: string, kind: 'face' | 'root' | 'side') => ({ label, kind, discontinuities: [] });
@@ -235,5 +236,70 @@ describe('POST /api/coupons: judged with the whole coupon', () => {
     expect(c.visual).toBe('reject');
     expect(c.visualFindings).toEqual([{ type: 'crack' }]);
     expect(c.evaluation?.parts.map((p) => p.kind)).toEqual(['visual']);
+  });
+
+  async function wpqText(qa: Awaited<ReturnType<typeof setup>>['qa'], couponId: string, version: number) {
+    const q = (await qa.post(`/api/coupons/${couponId}/certify`).send({ certifiedOn: daysAgo(1), version }).expect(201))
+      .body as { id: string };
+    const pdf = await qa.get(`/api/qualifications/${q.id}/wpq.pdf`).buffer(true).parse(binaryBody).expect(200);
+    return (await readPdf(pdf.body as Buffer)).text;
+  }
+
+  it('prints on the WPQ the fillet weld break and macro-etch actually performed, with their results and clauses (from memory: ASME IX QW-182, QW-184)', async () => {
+    const { qa, ids } = await setup();
+    const res = await qa.post('/api/coupons').send(
+      couponBody(ids, {
+        coupon: {
+          code: 'asme-ix',
+          process: 'SMAW',
+          form: 'plate',
+          weld: 'fillet',
+          position: '2F',
+          thickness: inch(0.375),
+          backing: true,
+          fNumber: 4,
+        },
+        pipe: null,
+        visual: { result: 'accept', findings: [{ type: 'undercut', size: inch(1 / 64) }] },
+        examination: {
+          filletBreak: { bentFlat: false, inclusions: [inch(1 / 16)] },
+          macroEtch: { completeFusion: true, legs: [inch(3 / 8), inch(5 / 16)] },
+        },
+        claimedResult: 'accept',
+      }),
+    );
+    expect(res.status).toBe(201);
+    const c = bodyOf(couponRecordSchema, res);
+    expect(c.evaluation?.parts.map((p) => p.kind)).toEqual(['visual', 'fillet-break', 'macro-etch']);
+    const text = await wpqText(qa, c.id, c.version);
+    expect(text).toMatch(/Fillet weld break Accept — judged by .*QW-181\.2, QW-182/);
+    expect(text).toContain('Inclusions and pores: 1/16 in');
+    expect(text).toMatch(/Macro-etch Accept — judged by .*QW-184/);
+    expect(text).toContain('Fillet legs 3/8 in and 5/16 in');
+    expect(text).toContain('Visual finding Undercut, 1/64 in');
+    expect(text).toContain('Coupon result: Accept (every part of the examination must pass)');
+    expect(text).not.toContain('Specimen result');
+  });
+
+  it('prints on the WPQ the radiography performed in place of bends, with each indication (from memory: ASME IX QW-191.1.2.2)', async () => {
+    const { qa, ids } = await setup();
+    const res = await qa.post('/api/coupons').send(
+      couponBody(ids, {
+        examination: {
+          volumetric: {
+            method: 'radiography',
+            indications: [{ type: 'rounded', size: inch(1 / 32) }],
+            reportNumber: 'RT-PDF-1',
+          },
+        },
+        claimedResult: 'accept',
+      }),
+    );
+    expect(res.status).toBe(201);
+    const c = bodyOf(couponRecordSchema, res);
+    const text = await wpqText(qa, c.id, c.version);
+    expect(text).toMatch(/Radiography Accept — judged by .*QW-191\.1\.2\.2/);
+    expect(text).toContain('Report RT-PDF-1');
+    expect(text).toContain('Rounded indication (porosity), 1/32 in');
   });
 });

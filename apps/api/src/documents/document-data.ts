@@ -76,6 +76,20 @@ export type VolumetricExaminationData = {
   remarks?: string;
 };
 
+/** A part of the examination other than the visual examination and the bends (radiography or
+ *  ultrasonics with their indications, fillet weld break, macro-etch, nick-breaks, the processes of a
+ *  combination coupon, a retest), as it was performed and judged. */
+export type ExaminationPartData = {
+  /** In the trade's words: 'Radiography', 'Fillet weld break', 'Nick-break tests'. */
+  name: string;
+  result: BendResult;
+  /** The criteria it was judged by, with the clause: 'ASME IX QW-191.1.2.2'. */
+  judgedBy?: string;
+  /** What was recorded, one line each ('Rounded indication (porosity), 1/16 in'). */
+  findings: string[];
+  reasons: Array<{ clause: string; message: string }>;
+};
+
 export type WpqDocumentData = {
   company: { name: string };
   welder: { name: string; stamp: string };
@@ -118,6 +132,10 @@ export type WpqDocumentData = {
     test?: BendExaminationData | VolumetricExaminationData;
     /** The coupon's verdict on the whole examination (the server's evaluation). */
     result?: BendResult;
+    /** Visual findings, one line each. */
+    visualFindings?: string[];
+    /** Every other part performed, in the order it was judged. */
+    parts?: ExaminationPartData[];
   };
   ranges: QualifiedRangesData;
   rulesVersion: string;

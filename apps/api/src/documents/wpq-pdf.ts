@@ -3,6 +3,7 @@
 import { formatLength } from '@beadroll/rules';
 import type {
   BendExaminationData,
+  ExaminationPartData,
   Length,
   QualifiedRangesData,
   VolumetricExaminationData,
@@ -186,7 +187,9 @@ function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
     ]);
     if (v.remarks) facts.push(['Remarks', v.remarks]);
   }
+  for (const f of d.examination.visualFindings ?? []) facts.push(['Visual finding', f]);
   drawFacts(l, facts);
+  for (const part of d.examination.parts ?? []) drawPart(l, part);
   if (test?.method === 'bend') {
     l.gap(6);
     l.table(
@@ -202,20 +205,32 @@ function drawExamination(l: FlowLayout, d: WpqDocumentData): void {
       rows,
       { size: 8 },
     );
-    l.gap(6);
-    l.text(`Coupon result: ${RESULT_WORDS[test.result]} (every specimen must pass)`, {
+  }
+  const result = d.examination.result ?? test?.result;
+  if (result) {
+    l.gap(test?.method === 'bend' ? 6 : 4);
+    const rule = d.examination.parts?.length
+      ? ' (every part of the examination must pass)'
+      : test?.method === 'bend'
+        ? ' (every specimen must pass)'
+        : '';
+    l.text(`Coupon result: ${RESULT_WORDS[result]}${rule}`, {
       size: 9.5,
       bold: true,
-      color: test.result === 'accept' ? INK : WARN,
-    });
-  } else if (test) {
-    l.gap(4);
-    l.text(`Coupon result: ${RESULT_WORDS[test.result]}`, {
-      size: 9.5,
-      bold: true,
-      color: test.result === 'accept' ? INK : WARN,
+      color: result === 'accept' ? INK : WARN,
     });
   }
+}
+
+/** One part of the examination as performed: its verdict and criteria, what was found, its reasons. */
+function drawPart(l: FlowLayout, part: ExaminationPartData): void {
+  l.gap(4);
+  drawFacts(l, [
+    [part.name, `${RESULT_WORDS[part.result]}${part.judgedBy ? ` — judged by ${part.judgedBy}` : ''}`],
+    ...part.findings.map((f): [string, string] => ['', f]),
+  ]);
+  for (const r of part.reasons)
+    l.text(`${part.name} — ${r.clause}: ${r.message}`, { size: 8.5, color: WARN });
 }
 
 /** Label/value pairs in two columns of labels and values. */

@@ -25,6 +25,7 @@ import { isUniqueViolation } from '../lib/db-errors.js';
 import { getCoupon, lockCouponForCertification } from '../coupons/coupons.service.js';
 import { currentVerifyUrl } from '../verify/verify-tokens.service.js';
 import { renderWpqPdf } from '../documents/wpq-pdf.js';
+import { examinationPartsData, visualFindingLines } from '../documents/examination-parts.js';
 import { renderWalletCardPdf } from '../documents/wallet-card-pdf.js';
 import { formatDiameterRange, formatThicknessRange } from '../documents/document-format.js';
 import type {
@@ -281,14 +282,16 @@ function examinationData(c: CouponRecord): WpqDocumentData['examination'] {
           reasons: s.reasons,
         })),
       }
-    : ex.volumetric
-      ? {
-          method: ex.volumetric.method,
-          result: ex.volumetric.examinerResult ?? (c.result === 'accept' ? 'accept' : 'reject'),
-          reportNumber: ex.volumetric.reportNumber ?? '',
-        }
-      : undefined;
-  return { visual: { result: c.visual }, result: c.result, ...(test ? { test } : {}) };
+    : undefined;
+  const parts = examinationPartsData(c);
+  const findings = visualFindingLines(c);
+  return {
+    visual: { result: c.visual },
+    result: c.result,
+    ...(test ? { test } : {}),
+    ...(parts.length ? { parts } : {}),
+    ...(findings.length ? { visualFindings: findings } : {}),
+  };
 }
 
 export async function wpqPdf(
