@@ -1,6 +1,6 @@
 // The digest e-mail of one lapse-watch run to one recipient: every qualification they are told about,
 // soonest lapse first, in plain text and HTML, each with a link to the welder's file.
-import { addDays, daysBetween } from '@beadroll/rules';
+import { addDays, daysBetween, displayName } from '@beadroll/rules';
 import { escapeHtml, type Mail } from '../lib/mailer.js';
 
 export interface DigestItem {
@@ -15,13 +15,8 @@ export interface DigestItem {
   lastUse: string | null;
 }
 
-const codeNames: Record<string, string> = {
-  'asme-ix': 'ASME IX',
-  'aws-d1.1': 'AWS D1.1',
-  'api-1104': 'API 1104',
-  'iso-9606-1': 'ISO 9606-1',
-};
-export const codeName = (code: string) => codeNames[code] ?? code;
+/** The code in the trade's words (the rules package's one list of names). */
+export const codeName = (code: string) => displayName('codes', code);
 
 const GOVERNS =
   'Dates are computed from the continuity log and passing tests. The code edition in force, the ' +
