@@ -11,6 +11,8 @@ import { readPdf } from '../../../apps/api/src/documents/__fixtures__/read-pdf.j
 
 const inch = (value: number) => ({ value, unit: 'in' as const });
 const sound = (label: string, kind: 'face' | 'root' | 'side') => ({ label, kind, discontinuities: [] });
+/** Four sound bends of a 6G coupon (from memory: ASME IX QW-452.1(a)). */
+const fourSound = { specimens: [sound('F1', 'face'), sound('F2', 'face'), sound('R1', 'root'), sound('R2', 'root')] };
 /** Four bends of a 6G coupon, the first root bend with a 3/16 in crack. */
 const crackedRoot = {
   bend: {
@@ -302,4 +304,31 @@ describe('POST /api/coupons: judged with the whole coupon', () => {
     expect(text).toContain('Report RT-PDF-1');
     expect(text).toContain('Rounded indication (porosity), 1/32 in');
   });
+
+  it('links a retest to the failed coupon it retests, taking its date from the record, and refuses one that names a passing coupon (from memory: ASME IX QW-321.3, a retest after further training)', async () => {
+    const { qa, ids } = await setup();
+    const failed = bodyOf(
+      couponRecordSchema,
+      await qa.post('/api/coupons').send(couponBody(ids, { testedOn: daysAgo(20), examination: crackedRoot, claimedResult: 'reject' })).expect(201),
+    );
+    const retest = await qa.post('/api/coupons').send(
+      couponBody(ids, {
+        labReportNumber: 'LR-T-RETEST',
+        examination: { bend: fourSound, retest: { of: failed.id, basis: 'after-training' } },
+        claimedResult: 'accept',
+      }),
+    );
+    expect(retest.status).toBe(201);
+    const r = bodyOf(couponRecordSchema, retest);
+    const part = r.evaluation?.parts.find((p) => p.kind === 'retest');
+    expect(part?.notes[0]?.message).toContain(`failed on ${daysAgo(20)}`);
+    expect(part?.notes[0]?.clause).toBe('QW-321');
+
+    const wrong = await qa.post('/api/coupons').send(
+      couponBody(ids, { examination: { bend: fourSound, retest: { of: r.id, basis: 'immediate' } } }),
+    );
+    expect(wrong.status).toBe(400);
+    expect(errorOf(wrong).fields?.['examination.retest.of']).toMatch(/rejected coupon of this welder/);
+  });
 });
+

@@ -196,3 +196,22 @@ export async function welderOfOrganization(db: EntityManager, organizationId: st
 export const passingTestDatesSql = (welder: string, process: string) =>
   `ARRAY(SELECT to_char(e.tested_on, 'YYYY-MM-DD') FROM coupons e
           WHERE e.welder_id = ${welder} AND e.process = ${process} AND e.result = 'accept' ORDER BY e.tested_on)`;
+
+/** A rejected coupon of the welder, for a retest to name. */
+export async function failedCouponOf(db: EntityManager, organizationId: string, welderId: string, id: string) {
+  const rows: { id: string; testedOn: string }[] = await db.query(
+    `SELECT id, to_char(tested_on, 'YYYY-MM-DD') AS "testedOn" FROM coupons
+      WHERE organization_id = $1 AND welder_id = $2 AND id = $3 AND result = 'reject'`,
+    [organizationId, welderId, id],
+  );
+  return rows[0] ?? null;
+}
+
+/** The coupons already recorded as retests of a failed coupon (other than the one being edited). */
+export async function retestsOf(db: EntityManager, failedId: string, exceptId: string | null) {
+  return db.query<{ basis: string; result: 'accept' | 'reject' | 'replace-specimen' }[]>(
+    `SELECT examination->'retest'->>'basis' AS basis, result FROM coupons
+      WHERE examination->'retest'->>'of' = $1 AND ($2::uuid IS NULL OR id <> $2::uuid) ORDER BY tested_on, created_at`,
+    [failedId, exceptId],
+  );
+}

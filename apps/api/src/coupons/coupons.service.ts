@@ -83,12 +83,46 @@ export async function getCoupon(
   return record!;
 }
 
+/**
+ * A retest names the failed coupon it retests (QW-321, D1.1 retest, API 1104 retest): it must be a
+ * rejected coupon of the same welder; its date, the retests already made of it and the verdicts of the
+ * other coupons of an immediate retest are taken from the records, never from the request.
+ */
+async function linkRetest(
+  db: EntityManager,
+  actor: Actor,
+  input: CouponFields,
+  welderId: string,
+  couponId: string | null,
+): Promise<CouponFields> {
+  const retest = input.examination.retest;
+  if (!retest) return input;
+  const failed = isUuid(retest.of) ? await repo.failedCouponOf(db, actor.organizationId, welderId, retest.of) : null;
+  if (!failed)
+    throw AppError.validation({ 'examination.retest.of': 'Name a rejected coupon of this welder: the test this one retests' });
+  const others = await repo.retestsOf(db, retest.of, couponId);
+  return {
+    ...input,
+    examination: {
+      ...input.examination,
+      retest: {
+        ...retest,
+        failedOn: failed.testedOn,
+        priorRetests: others.filter((o) => o.basis === 'immediate').length,
+        companions: others.filter((o) => o.basis === 'immediate').map((o) => o.result),
+      },
+    },
+  };
+}
+
 /** Every check against the company's records, then the evaluation: the row to write. */
 async function prepare(
   deps: AppDeps,
   db: EntityManager,
   actor: Actor,
   input: CouponFields,
+  welderId: string,
+  couponId: string | null,
 ): Promise<{ write: repo.CouponWrite; uploadIds: string[] }> {
   const fields: Record<string, string> = {};
   const [shop] = await companyShops(db, actor, [input.shopId]);
@@ -101,7 +135,7 @@ async function prepare(
   if (input.testedOn > (await companyToday(db, actor, deps.clock))) fields.testedOn = 'The test date cannot be in the future';
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
 
-  const evaluation = evaluateCoupon(input);
+  const evaluation = evaluateCoupon(await linkRetest(db, actor, input, welderId, couponId));
   const refs = attachmentRefs(input);
   await checkAttachments(db, actor, refs);
   return {
@@ -139,7 +173,7 @@ export async function createCoupon(deps: AppDeps, actor: Actor, input: CreateInp
     const { welderId, ...fields } = input;
     if (!(await repo.welderOfOrganization(db, actor.organizationId, welderId)))
       throw AppError.validation({ welderId: 'Choose a welder of your company' });
-    const { write, uploadIds } = await prepare(deps, db, actor, fields);
+    const { write, uploadIds } = await prepare(deps, db, actor, fields, welderId, null);
     const now = deps.clock.now();
     const couponId = await repo.insertCoupon(db, {
       ...write,
@@ -176,7 +210,7 @@ export async function updateCoupon(
     if (current.qualificationId) throw AppError.conflict(CERTIFIED_LOCKED);
     if (current.version !== input.version) throw AppError.conflict(STALE);
     const { version: _v, ...fields } = input;
-    const { write, uploadIds } = await prepare(deps, db, actor, fields);
+    const { write, uploadIds } = await prepare(deps, db, actor, fields, current.welderId, id);
     const changes = diff(current.snapshot, snapshot(write));
     if (changes.changed.length === 0) return;
     const now = deps.clock.now();
