@@ -191,6 +191,7 @@ const fullRecompute = await time(3, () =>
 );
 // The same walk storing every pair (what the seed and a migration run): nothing has changed since the
 // saves, so it writes nothing, and the time is the walk, the re-flag and the welders' soonest lapse.
+// Printed for information: the issue's target is for the recompute above (what continuity:verify runs).
 const fullRefresh = await time(1, () =>
   ds.transaction(async (db) => {
     await db.query(`SET LOCAL statement_timeout = 0`);
@@ -206,7 +207,7 @@ console.log(
       monthSaveCells: crew.length * 3,
       bigMonthSaveCells: Math.min(2000, bigCrew.length * 3),
       medianMs: { lapseScan, weldersPage, monthSave, bigMonthSave, fullRecompute, fullRefresh },
-      targetsMs: { lapseScan: 50, weldersPage: 50, monthSave: 200, bigMonthSave: 2_000, fullRecompute: 10_000, fullRefresh: 10_000 },
+      targetsMs: { lapseScan: 50, weldersPage: 50, monthSave: 200, bigMonthSave: 2_000, fullRecompute: 10_000 },
     },
     null,
     2,

@@ -181,10 +181,14 @@ export function upgradeExamination(raw: unknown): unknown {
     result?: unknown;
     reportNumber?: unknown;
     reportUploadId?: unknown;
+    additionalCriteria?: unknown;
   };
-  if (old.method === 'bend') return { criteria: old.criteria, bend: { specimens: old.specimens } };
+  // The in-house set judged in addition to the code's travels with the examination, never dropped.
+  const extra = old.additionalCriteria !== undefined ? { additionalCriteria: old.additionalCriteria } : {};
+  if (old.method === 'bend') return { criteria: old.criteria, ...extra, bend: { specimens: old.specimens } };
   if (old.method === 'radiography' || old.method === 'ultrasonic')
     return {
+      ...extra,
       volumetric: {
         method: old.method,
         indications: [],
