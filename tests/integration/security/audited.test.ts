@@ -218,7 +218,7 @@ describe('every mutation is audited', () => {
         );
         return qa
           .post(`/api/continuity/entries/${entry!.id}/review`)
-          .send({ note: 'Audit: welds to be radiographed' });
+          .send({ decision: 'welds-examined', note: 'Audit: welds radiographed' });
       },
     ],
     ['patch /settings', () => qa.patch('/api/settings').send({ warnDays: [45, 14, 3] })],
