@@ -139,7 +139,7 @@ try {
     }
   if (cells.length < connections)
     throw new Error(`${cells.length} grid cells for ${connections} connections`);
-  const shop = shops[0];
+  const shop = shops.find((sh) => sh.id === cells[0]!.shopId);
   const [coupon] = await query<{ welderId: string; shopId: string; procedureId: string }>(
     `SELECT w.id AS "welderId", w.home_shop_id AS "shopId", p.id AS "procedureId"
        FROM welders w JOIN procedures p ON p.organization_id = w.organization_id AND p.code = 'asme-ix' AND 'SMAW' = ANY (p.processes)
@@ -240,6 +240,10 @@ try {
   console.log(ok ? '  target met: 0 errors, 0 5xx, every answer 2xx' : '  TARGET MISSED');
   process.exitCode = ok ? 0 : 1;
 } finally {
-  if (api.pid) process.kill(-api.pid, 'SIGTERM');
+  try {
+    if (api.pid) process.kill(-api.pid, 'SIGTERM');
+  } catch {
+    /* already gone */
+  }
   await once(api, 'exit');
 }
