@@ -35,7 +35,7 @@ const testOrUse = `CASE WHEN c.code = p.code AND EXISTS (SELECT 1 FROM qualifica
  * passing coupons of the process (a test of the pair when certified under its code, else use) and every
  * logged use of the process from any shop.
  */
-function evidenceInLifeSql(cut: (col: string) => string): string {
+function evidenceInLifeSql(cut: (col: string) => string, entries: boolean): string {
   const inLife = (d: string) => `${d} >= p.qualified_on AND (p.revoked_on IS NULL OR ${d} < p.revoked_on)`;
   return `
     SELECT p.pair_no, p.code, p.qualified_on, c.tested_on AS d, ${testOrUse} AS k, NULL::uuid AS entry_id
@@ -43,7 +43,7 @@ function evidenceInLifeSql(cut: (col: string) => string): string {
       JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept'
                     AND ${inLife('c.tested_on')} ${cut('c.tested_on')}
     UNION ALL
-    SELECT p.pair_no, p.code, p.qualified_on, e.used_on, 1, e.id
+    SELECT p.pair_no, p.code, p.qualified_on, e.used_on, 1, ${entries ? 'e.id' : 'NULL::uuid'}
       FROM pairs p
       JOIN continuity_entries e ON e.welder_id = p.welder_id AND e.process = p.process
                                AND ${inLife('e.used_on')} ${cut('e.used_on')}`;
@@ -75,13 +75,16 @@ interface WalkOptions {
   pairFilter?: string;
   /** Evidence after this date plays no part (a SQL expression of type date); omitted: all evidence. */
   asOf?: string;
+  /** Carry each logged use's id through the walk (the timeline needs it; the states do not, and a
+   * narrower row sorts faster). */
+  entries?: boolean;
 }
 
 /**
  * The walk as CTEs: `pairs`, `walk` (one row per evidence with its flags) and `computed` (one row per
  * pair with the state). Callers add their own final SELECT / INSERT.
  */
-export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
+export function walkCtes({ pairFilter = '', asOf, entries = false }: WalkOptions = {}): string {
   const cut = (col: string) => (asOf ? `AND ${col} <= ${asOf}` : '');
   const f = (last: string, lastTest: string) => lapsesOnSql('code', last, lastTest);
   const counted = '(w3.k = 0 OR NOT w3.broken)';
@@ -96,7 +99,7 @@ export function walkCtes({ pairFilter = '', asOf }: WalkOptions = {}): string {
      WHERE true ${pairFilter}
      GROUP BY q.organization_id, q.welder_id, q.process, q.code
   ),
-  ev_in AS (${evidenceInLifeSql(cut)}),
+  ev_in AS (${evidenceInLifeSql(cut, entries)}),
   ev_out AS (${evidenceOutsideLifeSql(cut)}),
   -- The walk proper runs over the evidence inside the pair's life only, one window partition per pair,
   -- so the per-pair aggregate below reads the windows' own order and needs no second sort.
@@ -483,10 +486,13 @@ export async function differingFlags(
 ): Promise<{ entryId: string; flaggedLapsed: boolean; reviewStatus: string | null; recomputedFlag: boolean }[]> {
   return manager.query(
     `${materialized ? 'WITH' : `WITH ${walkCtes()},`}
+     -- From each pair's ignored dates to the entries on them (the (welder_id, process, used_on) index),
+     -- not every entry against every pair of its welder and process.
      expected AS (
-       SELECT DISTINCT e.id FROM continuity_entries e
-         JOIN ${computedTable(materialized)} c ON c.welder_id = e.welder_id AND c.process = e.process
-        WHERE e.used_on >= c.qualified_on AND e.used_on = ANY (c.ignored)
+       SELECT DISTINCT e.id FROM ${computedTable(materialized)} c
+        CROSS JOIN LATERAL unnest(c.ignored) AS x(d)
+        JOIN continuity_entries e ON e.welder_id = c.welder_id AND e.process = c.process AND e.used_on = x.d
+        WHERE x.d >= c.qualified_on
      )
      SELECT e.id AS "entryId", e.flagged_lapsed AS "flaggedLapsed", e.review_status AS "reviewStatus",
             x.id IS NOT NULL AS "recomputedFlag"
@@ -528,7 +534,7 @@ export async function welderWalk(
   }[]
 > {
   return manager.query(
-    `WITH ${walkCtes({ pairFilter: 'AND q.welder_id = $1' })}
+    `WITH ${walkCtes({ pairFilter: 'AND q.welder_id = $1', entries: true })}
      SELECT process, code, to_char(d, 'YYYY-MM-DD') AS date, CASE WHEN k = 0 THEN 'test' ELSE 'use' END AS kind,
             entry_id AS "entryId", counted, renewal, to_char(lapsed_on, 'YYYY-MM-DD') AS "lapsedOn"
        FROM walk ORDER BY process, code, d, k`,
