@@ -122,10 +122,13 @@ describe('lapse watch boundaries (defect 10)', () => {
     const card = await qa.get(`/api/welders/${welder.id}/card.pdf`);
     expect(card.status).toBe(409);
     expect(errorOf(card).message).toContain('no longer with the company');
-    // A link revoked by hand for a welder still employed stays "no longer valid" (404), saying nothing more.
+    // A link revoked by hand for a welder still employed is "no longer valid" (410 Gone, issue 10 item 9),
+    // saying nothing more about the welder.
     const stays = w.weldersA[0]!;
     const t2 = ((await qa.post(`/api/welders/${stays.id}/verify-token`).expect(201)).body as { url: string }).url.split('/verify/')[1]!;
     await qa.delete(`/api/welders/${stays.id}/verify-token`).expect(204);
-    expect((await request(api.app).get(`/api/verify/${t2}`)).status).toBe(404);
+    const gone = await request(api.app).get(`/api/verify/${t2}`);
+    expect(gone.status).toBe(410);
+    expect(errorOf(gone).message).toBe('This card is no longer valid');
   });
 });
