@@ -1,6 +1,7 @@
 // The trade's names for Beadroll's internal ids: what a screen, a PDF, an e-mail or a rules message shows
 // instead of 'asme-ix' or '49cfr-192.229c'. One map for every app, so the words never drift apart.
 import { type CodeId, type CriteriaId } from '../schemas/common.js';
+import { type EvaluationPart, type IndicationType, type VisualFindingType } from '../schemas/examination.js';
 import { type Process, processNames } from '../schemas/coupon.js';
 import {
   type CfrMonthCounting,
@@ -66,6 +67,47 @@ export const isoRevalidationNames: Record<IsoRevalidation, string> = {
 };
 
 /** Every map, for a screen that looks a name up by what kind of id it holds. */
+/** The parts of a coupon's examination (the form, the coupon page, the welder file and the WPQ PDF). */
+export const examinationPartNames: Record<EvaluationPart['kind'], string> = {
+  visual: 'Visual examination',
+  bend: 'Guided bend tests',
+  radiography: 'Radiography',
+  ultrasonic: 'Ultrasonic examination',
+  'fillet-break': 'Fillet weld break',
+  'macro-etch': 'Macro-etch',
+  'nick-break': 'Nick-break tests',
+  combination: 'Combination of processes',
+  retest: 'Retest',
+};
+
+/** What a visual examination may find. */
+export const visualFindingNames: Record<VisualFindingType, string> = {
+  crack: 'Crack',
+  'lack-of-fusion': 'Lack of fusion',
+  'incomplete-penetration': 'Incomplete penetration',
+  undercut: 'Undercut',
+  porosity: 'Porosity',
+  overlap: 'Overlap',
+  'unfilled-crater': 'Unfilled crater',
+  reinforcement: 'Excess reinforcement',
+  'root-concavity': 'Root concavity',
+  'burn-through': 'Burn-through',
+  other: 'Other',
+};
+
+/** Indications on a radiograph or an ultrasonic scan. */
+export const indicationNames: Record<IndicationType, string> = {
+  crack: 'Crack',
+  'lack-of-fusion': 'Lack of fusion',
+  'incomplete-penetration': 'Incomplete penetration',
+  'elongated-slag': 'Elongated slag inclusion',
+  'isolated-slag': 'Isolated slag inclusion',
+  rounded: 'Rounded indication (porosity)',
+  'burn-through': 'Burn-through',
+  'hollow-bead': 'Hollow bead',
+  'other-linear': 'Other linear indication',
+};
+
 export const displayNames = {
   codes: codeNames,
   criteria: criteriaNames,

@@ -1,48 +1,12 @@
 // The trade's words for the parts of a coupon's examination and what is recorded in them, so the form,
 // the coupon page and the welder file never show the rules' internal codes.
-import type {
-  EvaluationPart,
-  IndicationType,
-  VisualFindingType,
+// The words of the parts, visual findings and indications are the rules package's (the WPQ PDF uses them
+// too); the form's own words follow.
+export {
+  examinationPartNames as PART_NAMES,
+  indicationNames as INDICATION_WORDS,
+  visualFindingNames as VISUAL_FINDING_WORDS,
 } from '@beadroll/rules';
-
-export const PART_NAMES: Record<EvaluationPart['kind'], string> = {
-  visual: 'Visual examination',
-  bend: 'Guided bend tests',
-  radiography: 'Radiography',
-  ultrasonic: 'Ultrasonic examination',
-  'fillet-break': 'Fillet weld break',
-  'macro-etch': 'Macro-etch',
-  'nick-break': 'Nick-break tests',
-  combination: 'Combination of processes',
-  retest: 'Retest',
-};
-
-export const VISUAL_FINDING_WORDS: Record<VisualFindingType, string> = {
-  crack: 'Crack',
-  'lack-of-fusion': 'Lack of fusion',
-  'incomplete-penetration': 'Incomplete penetration',
-  undercut: 'Undercut',
-  porosity: 'Porosity',
-  overlap: 'Overlap',
-  'unfilled-crater': 'Unfilled crater',
-  reinforcement: 'Excess reinforcement',
-  'root-concavity': 'Root concavity',
-  'burn-through': 'Burn-through',
-  other: 'Other',
-};
-
-export const INDICATION_WORDS: Record<IndicationType, string> = {
-  crack: 'Crack',
-  'lack-of-fusion': 'Lack of fusion',
-  'incomplete-penetration': 'Incomplete penetration',
-  'elongated-slag': 'Elongated slag inclusion',
-  'isolated-slag': 'Isolated slag inclusion',
-  rounded: 'Rounded indication (porosity)',
-  'burn-through': 'Burn-through',
-  'hollow-bead': 'Hollow bead',
-  'other-linear': 'Other linear indication',
-};
 
 export const RETEST_BASIS_WORDS = {
   immediate: 'Immediate retest',
