@@ -1,6 +1,6 @@
 // npm test: every suite against real services on the test run's own ports, with one summary line per
 // suite and a closing count. Exits non-zero when any suite fails.
-// Usage: npm test [-- --only typecheck,lint,unit,integration,e2e]
+// Usage: npm test [-- --only typecheck,lint,unit,integration,e2e] [--files tests/e2e/x.spec.ts,tests/integration/y]
 import { existsSync, readFileSync } from 'node:fs';
 import { rm, mkdir } from 'node:fs/promises';
 import path from 'node:path';
@@ -16,6 +16,9 @@ const baseUrl = `http://127.0.0.1:${port}`;
 const onlyArg = process.argv.indexOf('--only');
 const only = onlyArg > 0 ? new Set((process.argv[onlyArg + 1] ?? '').split(',')) : null;
 const wanted = (name: string) => !only || only.has(name);
+// `--files a,b` narrows the integration and browser suites to those test files (for working on one part).
+const filesArg = process.argv.indexOf('--files');
+const files = filesArg > 0 ? (process.argv[filesArg + 1] ?? '').split(',').filter(Boolean) : [];
 
 interface SuiteLine {
   name: string;
@@ -119,7 +122,7 @@ if (wanted('integration') || wanted('e2e')) {
 }
 
 if (wanted('integration')) {
-  await vitestSuite('integration', ['--config', 'tests/vitest.integration.config.ts'], { NODE_ENV: 'test' });
+  await vitestSuite('integration', ['--config', 'tests/vitest.integration.config.ts', ...files.filter((f) => f.includes('integration'))], { NODE_ENV: 'test' });
 }
 
 if (wanted('e2e')) {
@@ -144,7 +147,7 @@ if (wanted('e2e')) {
     api = keep(...tsx('apps/api/src/main.ts'), e2eEnv);
     try {
       await waitForHealth(`${baseUrl}/api/health`);
-      await vitestSuite('e2e', ['--config', 'tests/vitest.e2e.config.ts'], e2eEnv);
+      await vitestSuite('e2e', ['--config', 'tests/vitest.e2e.config.ts', ...files.filter((f) => f.includes('e2e'))], e2eEnv);
     } catch (err) {
       console.error(err);
       lines.push({ name: 'e2e', ok: false, ms: 0 });
