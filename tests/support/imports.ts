@@ -38,3 +38,11 @@ export async function commit(agent: Agent, id: string) {
 
 export const csv = (rows: string[][]) =>
   Buffer.from(rows.map((r) => r.map((c) => (/[",\n]/.test(c) ? `"${c.replace(/"/g, '""')}"` : c)).join(',')).join('\r\n'));
+
+/** Uploads a file, checks it with the mapping the API suggests (or the one given) and commits it. */
+export async function importFile(agent: Agent, kind: string, body: Buffer, fileName: string, mapping?: ImportMapping) {
+  const staged = await upload(agent, kind, body, fileName);
+  const checked = await check(agent, staged.id, mapping ?? staged.mapping);
+  expect(checked.report?.errors, JSON.stringify(checked.report?.issues)).toBe(0);
+  return (await commit(agent, staged.id)).view;
+}

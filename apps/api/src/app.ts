@@ -33,6 +33,7 @@ import { refuseBearer, withApiTokens } from './api-tokens/bearer.js';
 import { apiTokensRouter } from './api-tokens/api-tokens.router.js';
 import { openApiRouter } from './openapi/openapi.router.js';
 import { importsRouter } from './imports/imports.router.js';
+import { paperRecordsRouter } from './imports/paper-records.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -119,6 +120,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/overview', overviewRouter(deps, auth.requireAuth));
   api.use('/api-tokens', apiTokensRouter(deps, auth.requireAuth));
   api.use('/imports', importsRouter(deps, auth.requireAuth));
+  api.use('/paper-records', paperRecordsRouter(deps, auth.requireAuth));
   api.use(openApiRouter());
   if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps, auth.requireAuth));
   api.use(apiNotFound);

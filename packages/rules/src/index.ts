@@ -89,6 +89,7 @@ export {
 } from './ranges/position-tables.js';
 export { qualifiedRanges, RANGES_NOTICE, type QualifiedRanges } from './ranges/qualified-ranges.js';
 export { jointWithin } from './ranges/joint-within.js';
+export * from './ranges/paper-ranges.js';
 export { type Interval, type RangeLimit } from './ranges/size-ranges.js';
 
 // continuity

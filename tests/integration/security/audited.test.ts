@@ -12,7 +12,7 @@ import { bodyOf, signIn, startTestApi, type TestApi } from '../../support/api-ap
 import { makeWorld, TEST_PASSWORD, uniqueEmail } from '../../support/factories.js';
 import { couponBody, daysAgo, makeProcedure, samplePng } from '../../support/api-records.js';
 import { linkToken, waitForMail } from '../../support/mail.js';
-import { csv } from '../../support/imports.js';
+import { check, csv, importFile, upload, waitForImport } from '../../support/imports.js';
 
 /** Mutating routes that change no record of the company, and why. */
 const EXEMPT: Record<string, string> = {
@@ -235,29 +235,26 @@ describe('every mutation is audited', () => {
     [
       'post /imports/:id/commit',
       async () => {
-        const staged = await qa
-          .post('/api/imports')
-          .field('kind', 'welders')
-          .attach(
-            'file',
-            csv([
-              ['Stamp', 'Name', 'Shop'],
-              ['AU-50', 'Imported Audit', 'AA'],
-            ]),
-            'welders.csv',
-          );
-        const id = (staged.body as { id: string; mapping: unknown }).id;
-        await qa
-          .post(`/api/imports/${id}/check`)
-          .send({ mapping: (staged.body as { mapping: unknown }).mapping, dateFormat: 'iso' })
-          .expect(200);
-        const res = await qa.post(`/api/imports/${id}/commit`);
-        for (let i = 0; i < 200; i++) {
-          const view = (await qa.get(`/api/imports/${id}`).expect(200)).body as { status: string };
-          if (view.status !== 'running') break;
-          await new Promise((r) => setTimeout(r, 100));
-        }
+        const staged = await upload(qa, 'welders', csv([['Stamp', 'Name', 'Shop'], ['AU-50', 'Imported Audit', 'AA']]), 'welders.csv');
+        await check(qa, staged.id, staged.mapping);
+        const res = await qa.post(`/api/imports/${staged.id}/commit`);
+        await waitForImport(qa, staged.id);
         return res;
+      },
+    ],
+    [
+      'post /paper-records/:id/settle',
+      async () => {
+        const wpq = csv([
+          ['Stamp', 'Code', 'Process', 'Test date', 'WPS', 'Plate or pipe', 'Groove or fillet', 'Test position', 'Thickness', 'Backing', 'F-No.', 'Paper: groove positions'],
+          ['A-02', 'ASME IX', 'SMAW', daysAgo(40), 'WPS-AUDIT', 'plate', 'groove', '2G', '3/8', 'yes', '4', 'all'],
+        ]);
+        await importFile(qa, 'qualifications', wpq, 'paper wpqs.csv');
+        const [p] = await api.ds.query<{ id: string }[]>(
+          `SELECT qualification_id AS id FROM qualification_paper_records WHERE organization_id = $1`,
+          [world.org.id],
+        );
+        return qa.post(`/api/paper-records/${p!.id}/settle`).send({ settlement: 'narrowed', note: 'The paper record governs' });
       },
     ],
   ];

@@ -22,6 +22,7 @@ import {
   breathe,
   type Tick,
   shopsByCodeOrName,
+  weldersByStamp,
 } from './import-plan.js';
 import { dateHint, parseDay, parseMonth } from './cells.js';
 
@@ -52,14 +53,7 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
   const cols = new Columns(fields, ctx);
   const findings = new Findings();
   const shopByKey = await shopsByCodeOrName(db, actor.organizationId);
-  const welders = new Map(
-    (
-      await db.query<{ id: string; stamp: string; homeShopId: string }[]>(
-        `SELECT id, stamp, home_shop_id AS "homeShopId" FROM welders WHERE organization_id = $1`,
-        [actor.organizationId],
-      )
-    ).map((w) => [w.stamp, w]),
-  );
+  const welders = await weldersByStamp(db, actor.organizationId);
 
   const cells = new Map<string, Cell>();
   let folded = 0;

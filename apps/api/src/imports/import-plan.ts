@@ -15,6 +15,8 @@ export type FieldDef = ImportField & { aliases: string[] };
 export interface PlanContext {
   db: EntityManager;
   actor: Actor;
+  /** The import being checked or committed (rows it writes may name it). */
+  importId: string;
   sheet: Sheet;
   mapping: ImportMapping;
   dateFormat: ImportDateFormat;
@@ -140,4 +142,13 @@ export async function shopsByCodeOrName(db: EntityManager, organizationId: strin
     byKey.set(s.name.toLowerCase(), ref);
   }
   return byKey;
+}
+
+/** The company's welders by stamp, with their home shop (the default shop of a row). */
+export async function weldersByStamp(db: EntityManager, organizationId: string) {
+  const rows = await db.query<{ id: string; stamp: string; homeShopId: string }[]>(
+    `SELECT id, stamp, home_shop_id AS "homeShopId" FROM welders WHERE organization_id = $1`,
+    [organizationId],
+  );
+  return new Map(rows.map((w) => [w.stamp, w]));
 }

@@ -14,10 +14,11 @@ import type { KindDef, PlanContext } from './import-plan.js';
 import { readSpreadsheet } from './spreadsheet.js';
 import { weldersImport } from './welders.import.js';
 import { continuityImport } from './continuity.import.js';
+import { qualificationsImport } from './qualifications.import.js';
 import * as repo from './imports.repository.js';
 import { companyToday } from '../settings/settings.repository.js';
 
-const kinds: Partial<Record<ImportKind, KindDef>> = { welders: weldersImport, continuity: continuityImport };
+const kinds: Partial<Record<ImportKind, KindDef>> = { welders: weldersImport, qualifications: qualificationsImport, continuity: continuityImport };
 
 function kindDef(kind: ImportKind): KindDef {
   const def = kinds[kind];
@@ -119,9 +120,10 @@ function checkMapping(row: repo.ImportRow, input: ImportCheckInput) {
   if (Object.keys(fields).length) throw AppError.validation(fields, 'Check the column mapping');
 }
 
-const planContext = async (deps: AppDeps, actor: Actor, db: PlanContext['db'], sheet: PlanContext['sheet'], input: ImportCheckInput): Promise<PlanContext> => ({
+const planContext = async (deps: AppDeps, actor: Actor, importId: string, db: PlanContext['db'], sheet: PlanContext['sheet'], input: ImportCheckInput): Promise<PlanContext> => ({
   db,
   actor,
+  importId,
   sheet,
   mapping: input.mapping,
   dateFormat: input.dateFormat,
@@ -137,7 +139,7 @@ export async function checkImport(deps: AppDeps, actor: Actor, id: string, input
     throw AppError.conflict(row.status === 'running' ? 'This import is running' : 'This import is already committed');
   checkMapping(row, input);
   const sheet = await readFile(deps, row);
-  const plan = await kindDef(row.kind).plan(await planContext(deps, actor, deps.dataSource.manager, sheet, input));
+  const plan = await kindDef(row.kind).plan(await planContext(deps, actor, row.id, deps.dataSource.manager, sheet, input));
   const options = { headers: row.options.headers, mapping: input.mapping, dateFormat: input.dateFormat };
   await deps.dataSource.transaction(async (db) => {
     await repo.saveCheck(db, row.id, options, plan.report);
@@ -172,7 +174,7 @@ async function runCommit(deps: AppDeps, actor: Actor, row: repo.ImportRow): Prom
       await db.query(`SET LOCAL statement_timeout = '300s'`);
       // One import of a company at a time: two would plan against each other's unwritten rows.
       await db.query(`SELECT pg_advisory_xact_lock(hashtextextended('import:' || $1, 0))`, [actor.organizationId]);
-      const plan = await kindDef(row.kind).plan(await planContext(deps, actor, db, sheet, input));
+      const plan = await kindDef(row.kind).plan(await planContext(deps, actor, row.id, db, sheet, input));
       if (plan.report.errors > 0) throw new AppError('conflict', 'The data changed since the check; check the file again');
       await progress('writing', 0, plan.report.new + plan.report.changed);
       const written = await plan.apply(db, progress);

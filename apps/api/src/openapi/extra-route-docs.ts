@@ -1,5 +1,14 @@
 // Routes of the import, report and export features (issue 13), listed beside the core table.
-import { importCheckInput, importListSchema, importSchema, importUploadFields } from '@beadroll/rules';
+import {
+  importCheckInput,
+  importListSchema,
+  importSchema,
+  importUploadFields,
+  paperRecordListQuery,
+  paperRecordListSchema,
+  paperRecordSchema,
+  paperSettleInput,
+} from '@beadroll/rules';
 import type { RouteDoc } from './route-docs.js';
 
 const qa = ['qa_manager'];
@@ -11,5 +20,7 @@ export const extraRouteDocs: RouteDoc[] = [
   { method: 'post', path: '/imports/:id/check', summary: 'Dry run with a column mapping and date format', tag: 'Imports', access: 'session', roles: qa, body: importCheckInput, status: 200, response: importSchema },
   { method: 'post', path: '/imports/:id/commit', summary: 'Commit a checked import (all or nothing); poll for progress', tag: 'Imports', access: 'session', roles: qa, status: 202, response: importSchema },
   { method: 'post', path: '/imports/:id/cancel', summary: 'Cancel a running import (nothing is written)', tag: 'Imports', access: 'session', roles: qa, status: 200, response: importSchema },
+  { method: 'get', path: '/paper-records', summary: 'Imported paper WPQs whose stated ranges differ from the computed ones', tag: 'Imports', access: 'session', roles: qa, query: paperRecordListQuery, status: 200, response: paperRecordListSchema },
+  { method: 'post', path: '/paper-records/:id/settle', summary: 'Settle a paper WPQ’s range difference: the computed ranges stand, or narrow to what both allow', tag: 'Imports', access: 'session', roles: qa, body: paperSettleInput, status: 200, response: paperRecordSchema },
 ];
 

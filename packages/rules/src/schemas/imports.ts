@@ -5,8 +5,8 @@ import { z } from 'zod';
 
 export const importKinds = ['welders', 'qualifications', 'continuity', 'welds'] as const;
 export type ImportKind = (typeof importKinds)[number];
-/** The kinds this version imports (qualifications and production welds are not built yet). */
-export const availableImportKinds = ['welders', 'continuity'] as const satisfies readonly ImportKind[];
+/** The kinds this version imports (production welds are not built yet). */
+export const availableImportKinds = ['welders', 'qualifications', 'continuity'] as const satisfies readonly ImportKind[];
 
 /** How the file writes dates that are not ISO (YYYY-MM-DD is always read as ISO): chosen, never guessed. */
 export const importDateFormats = ['iso', 'us', 'day-first'] as const;
@@ -93,3 +93,41 @@ export const importSchema = z.object({
 export type Import = z.infer<typeof importSchema>;
 
 export const importListSchema = z.object({ items: z.array(importSchema.omit({ report: true, fields: true, headers: true })) });
+
+// ---- paper WPQ records whose stated ranges differ from the computed ones --------------------------------
+
+export const paperSettlements = ['computed', 'narrowed'] as const;
+export const paperSettlementNames: Record<(typeof paperSettlements)[number], string> = {
+  computed: 'The computed ranges stand',
+  narrowed: 'Narrowed to what both allow',
+};
+
+export const paperRecordListQuery = z.object({
+  /** 'open' (the default): differences waiting to be settled; 'settled'; 'all'. */
+  state: z.enum(['open', 'settled', 'all']).default('open'),
+});
+
+export const paperSettleInput = z.object({
+  settlement: z.enum(paperSettlements, 'Choose how the difference is settled'),
+  note: z.string().trim().min(1, 'Say why (it goes into the audit trail)').max(500, 'At most 500 characters'),
+});
+export type PaperSettleInput = z.infer<typeof paperSettleInput>;
+
+export const paperRecordSchema = z.object({
+  qualificationId: z.string(),
+  number: z.string(),
+  welder: z.object({ id: z.string(), stamp: z.string(), name: z.string() }),
+  code: z.string(),
+  process: z.string(),
+  testedOn: z.string(),
+  importId: z.string().nullable(),
+  /** The row of the imported file. */
+  line: z.number().int(),
+  differences: z.array(z.object({ variable: z.string(), label: z.string(), computed: z.string(), stated: z.string() })),
+  settlement: z.enum(paperSettlements).nullable(),
+  settlementNote: z.string().nullable(),
+  settledBy: z.string().nullable(),
+  settledAt: z.string().nullable(),
+});
+export type PaperRecord = z.infer<typeof paperRecordSchema>;
+export const paperRecordListSchema = z.object({ items: z.array(paperRecordSchema) });

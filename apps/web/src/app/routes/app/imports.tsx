@@ -1,7 +1,7 @@
 // Imports (QA manager): choose what the file holds, upload it, map its columns to ours, check it (dry
 // run: nothing is written), read the report, then commit — all or nothing — with a progress bar and a cancel.
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { useState } from 'react';
+import { useEffect, useState } from 'react';
 import {
   availableImportKinds,
   importDateFormatNames,
@@ -14,10 +14,12 @@ import { Button } from '@/components/ui/button';
 import { PageHeader } from '@/components/ui/page-header';
 import { ErrorState } from '@/components/ui/states';
 import { errorMessage } from '@/lib/api-client';
-import { cancelImport, checkImport, commitImport, importQueries, uploadImport } from '@/features/imports/api/imports';
+import { cancelImport, checkImport, commitImport, importQueries, paperRecordQueries, uploadImport } from '@/features/imports/api/imports';
+import { PaperRecordDifferences } from '@/features/imports/components/paper-records';
 
 const kindNames: Record<(typeof availableImportKinds)[number], string> = {
   welders: 'Welders (stamp, name, home shop, e-mail)',
+  qualifications: 'Existing qualifications (paper WPQs: stamp, code, process, test date, the coupon’s variables)',
   continuity: 'Continuity history (stamp, process, date or month, job)',
 };
 
@@ -116,6 +118,11 @@ export default function ImportsRoute() {
     onSuccess: setData,
   });
   const commit = useMutation({ mutationFn: () => commitImport(id!), onSuccess: setData });
+  // A committed qualifications import may bring paper records to settle.
+  const committed = imp?.status === 'committed';
+  useEffect(() => {
+    if (committed) void queryClient.invalidateQueries({ queryKey: paperRecordQueries.all() });
+  }, [committed, queryClient]);
   const cancel = useMutation({ mutationFn: () => cancelImport(id!), onSuccess: setData });
 
   return (
@@ -144,7 +151,7 @@ export default function ImportsRoute() {
           <input className="mt-1 font-normal" type="file" accept=".csv,.xlsx,text/csv" onChange={(e) => setFile(e.target.files?.[0] ?? null)} />
         </label>
         <Button type="submit" variant="primary" busy={upload.isPending} disabled={!file}>Upload</Button>
-        <p className="w-full text-sm text-stone-600">Qualifications and production welds cannot be imported yet.</p>
+        <p className="w-full text-sm text-stone-600">Production welds cannot be imported yet.</p>
         {upload.isError && <p role="alert" className="w-full text-sm text-red-800">{errorMessage(upload.error)}</p>}
       </form>
 
@@ -216,6 +223,7 @@ export default function ImportsRoute() {
           <Report imp={imp} />
         </section>
       )}
+      <PaperRecordDifferences />
     </div>
   );
 }

@@ -1,6 +1,12 @@
 // Imports: upload, check (dry run), commit, cancel, and the import itself (polled while it runs).
 import { queryOptions } from '@tanstack/react-query';
-import { importSchema, type ImportCheckInput } from '@beadroll/rules';
+import {
+  importSchema,
+  paperRecordListSchema,
+  paperRecordSchema,
+  type ImportCheckInput,
+  type PaperSettleInput,
+} from '@beadroll/rules';
 import { apiRequest } from '@/lib/api-client';
 
 export const importQueries = {
@@ -27,3 +33,15 @@ export const commitImport = (id: string) =>
   apiRequest(`/api/imports/${encodeURIComponent(id)}/commit`, importSchema, { method: 'POST' });
 export const cancelImport = (id: string) =>
   apiRequest(`/api/imports/${encodeURIComponent(id)}/cancel`, importSchema, { method: 'POST' });
+
+export const paperRecordQueries = {
+  all: () => ['paper-records'] as const,
+  open: () =>
+    queryOptions({
+      queryKey: [...paperRecordQueries.all(), 'open'] as const,
+      queryFn: ({ signal }) => apiRequest('/api/paper-records?state=open', paperRecordListSchema, { signal }),
+    }),
+};
+
+export const settlePaperRecord = (qualificationId: string, input: PaperSettleInput) =>
+  apiRequest(`/api/paper-records/${encodeURIComponent(qualificationId)}/settle`, paperRecordSchema, { method: 'POST', body: input });
