@@ -72,10 +72,3 @@ export function suggestMapping(
   return out;
 }
 
-/**
- * A cell written into a CSV the registry hands out: a value starting with =, +, -, @ (or tab/CR, which some
- * programs strip first) would run as a formula when opened, so it gets a leading apostrophe.
- */
-export function csvSafe(value: string): string {
-  return /^[=+\-@\t\r]/.test(value) ? `'${value}` : value;
-}
