@@ -34,6 +34,7 @@ import { apiTokensRouter } from './api-tokens/api-tokens.router.js';
 import { openApiRouter } from './openapi/openapi.router.js';
 import { importsRouter } from './imports/imports.router.js';
 import { paperRecordsRouter } from './imports/paper-records.router.js';
+import { reportsRouter } from './reports/reports.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -121,6 +122,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/api-tokens', apiTokensRouter(deps, auth.requireAuth));
   api.use('/imports', importsRouter(deps, auth.requireAuth));
   api.use('/paper-records', paperRecordsRouter(deps, auth.requireAuth));
+  api.use('/reports', reportsRouter(deps, auth.requireAuth));
   api.use(openApiRouter());
   if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps, auth.requireAuth));
   api.use(apiNotFound);
