@@ -35,6 +35,7 @@ import { openApiRouter } from './openapi/openapi.router.js';
 import { importsRouter } from './imports/imports.router.js';
 import { paperRecordsRouter } from './imports/paper-records.router.js';
 import { reportsRouter } from './reports/reports.router.js';
+import { welderQualifiedOnRouter } from './qualified-on/qualified-on.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -108,6 +109,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/welders', welderCardRouter(deps, auth.requireAuth));
   api.use('/welders', verifyTokenRouter(deps, auth.requireAuth));
   api.use('/welders', welderTimelineRouter(deps, auth.requireAuth));
+  api.use('/welders', welderQualifiedOnRouter(deps, auth.requireAuth));
   api.use('/welders', weldersRouter(deps, auth.requireAuth));
   api.use('/continuity', continuityRouter(deps, auth.requireAuth));
   api.use('/uploads', uploadsRouter(deps, auth.requireAuth));

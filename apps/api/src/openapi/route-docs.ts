@@ -41,6 +41,8 @@ import {
   procedureSchema,
   procedureUpdateInput,
   qualificationListQuery,
+  qualifiedOnAnswerSchema,
+  qualifiedOnQueryFields,
   qualificationSchema,
   reviewInput,
   reviewDecisions,
@@ -135,6 +137,7 @@ export const coreRouteDocs: RouteDoc[] = [
   { method: 'post', path: '/welders/:id/verify-token', summary: 'Issue a new verify link (the old one stops working)', tag: 'Verify', access: 'any', roles: qa, status: 201, response: verifyTokenIssuedSchema },
   { method: 'delete', path: '/welders/:id/verify-token', summary: 'Withdraw the verify link', tag: 'Verify', access: 'any', roles: qa, status: 204, response: null },
   { method: 'get', path: '/welders/:id/timeline', summary: 'The welder’s continuity timeline', tag: 'Continuity', access: 'any', status: 200, response: timelineSchema },
+  { method: 'get', path: '/welders/:id/qualified-on', summary: 'Whether the welder was qualified for a joint on a day, with the proof (qualification, continuity as of that day, revocation)', tag: 'Qualified on', access: 'any', query: qualifiedOnQueryFields, status: 200, response: qualifiedOnAnswerSchema },
 
   // records
   { method: 'get', path: '/procedures', summary: 'WPS register', tag: 'Procedures', access: 'any', roles: managers, query: procedureListQuery, status: 200, response: items(procedureSchema) },
