@@ -525,6 +525,36 @@ describe('complete specimen sets (issue 9 error 1)', () => {
     ).toBe('accept');
   });
 
+  it('from memory: API 1104 welder specimen table (Table 3, 20th ed.) — face bends bent beside the two root bends of a wall up to 1/2 in do not make the set incomplete, and are judged', () => {
+    const apiPipe = (od: number, wallIn: number) => ({
+      code: 'api-1104' as const,
+      form: 'pipe' as const,
+      position: '5G',
+      depositedThickness: { value: wallIn, unit: 'in' as const },
+      thickness: { value: wallIn, unit: 'in' as const },
+      outsideDiameter: { value: od, unit: 'in' as const },
+    });
+    const judge = (specimens: Parameters<typeof evaluateBendTest>[0]['specimens'], od = 8.625, w = 0.322) =>
+      evaluateBendTest({ criteria: 'api-1104', wallThickness: { value: w, unit: 'in' }, specimens, coupon: apiPipe(od, w) });
+    // OD over 4-1/2 in to 12-3/4 in, wall 1/2 in or less: two root bends
+    expect(judge([clean('root'), clean('root')]).result).toBe('accept');
+    expect(judge([clean('root'), clean('root'), clean('face'), clean('face')]).result).toBe('accept');
+    expect(judge([clean('root'), clean('root'), { kind: 'face', discontinuities: [surface(0.2)] }]).result).toBe('reject');
+    // still short without the root bends the table calls for
+    expect(judge([clean('face'), clean('face')]).result).toBe('incomplete');
+    // OD over 12-3/4 in: two root and two face; extra face bends are judged, not refused
+    expect(judge([clean('root'), clean('root'), clean('face'), clean('face'), clean('face')], 16, 0.375).result).toBe('accept');
+    expect(judge([clean('root'), clean('root'), clean('face')], 16, 0.375).result).toBe('incomplete');
+    // ASME IX keeps refusing a mixed set
+    expect(
+      evaluateBendTest({
+        criteria: 'asme-ix',
+        specimens: [clean('face'), clean('root'), clean('side')],
+        coupon: { code: 'asme-ix', form: 'plate', position: '1G', depositedThickness: { value: 0.25, unit: 'in' } },
+      }).result,
+    ).toBe('incomplete');
+  });
+
   it('a rejecting specimen still rejects a short set (a fail is final)', () => {
     expect(
       evaluateBendTest({
