@@ -68,7 +68,17 @@ export {
 
 // the whole examination of a coupon
 export { evaluateCoupon } from './examination/evaluate-coupon.js';
-export { RETEST_RULES } from './examination/retests.js';
+export {
+  RETEST_RULES,
+  failedKindOf,
+  retestOptions,
+  retestSetOf,
+  retestSetVerdict,
+  type RetestCoupon,
+  type RetestOption,
+  type RetestSetResult,
+  type RetestSetVerdict,
+} from './examination/retests.js';
 
 // qualified ranges
 export * from './ranges/positions.js';

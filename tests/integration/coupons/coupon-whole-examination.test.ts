@@ -305,7 +305,7 @@ describe('POST /api/coupons: judged with the whole coupon', () => {
     expect(text).toContain('Rounded indication (porosity), 1/32 in');
   });
 
-  it('links a retest to the failed coupon it retests, taking its date from the record, and refuses one that names a passing coupon (from memory: ASME IX QW-321.3, a retest after further training)', async () => {
+  it('links a retest to the failed coupon it retests, taking its date from the record, and refuses one that names a passing coupon (from memory: ASME IX QW-321.4, a retest after further training)', async () => {
     const { qa, ids } = await setup();
     const failed = bodyOf(
       couponRecordSchema,
@@ -322,7 +322,7 @@ describe('POST /api/coupons: judged with the whole coupon', () => {
     const r = bodyOf(couponRecordSchema, retest);
     const part = r.evaluation?.parts.find((p) => p.kind === 'retest');
     expect(part?.notes[0]?.message).toContain(`failed on ${daysAgo(20)}`);
-    expect(part?.notes[0]?.clause).toBe('QW-321');
+    expect(part?.notes[0]?.clause).toBe('QW-321.4');
 
     const wrong = await qa.post('/api/coupons').send(
       couponBody(ids, { examination: { bend: fourSound, retest: { of: r.id, basis: 'immediate' } } }),

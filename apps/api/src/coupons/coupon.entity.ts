@@ -26,6 +26,8 @@ export interface CouponRow {
   /** The stored evaluation (couponEvaluationSchema); null for coupons recorded before rules 2.0.0. */
   evaluation: object | null;
   rulesVersion: string;
+  /** The failed coupon this one retests (QW-321, AWS D1.1 retest, API 1104 retest), or null. */
+  retestOfId: string | null;
   notes: string;
   /** Optimistic-lock version: an edit from a stale version gets 409. */
   version: number;
@@ -59,6 +61,7 @@ export const CouponEntity = new EntitySchema<CouponRow>({
     additionalCriteriaId: col.text('additional_criteria_id', true),
     evaluation: col.jsonb('evaluation'),
     rulesVersion: col.text('rules_version'),
+    retestOfId: col.uuid('retest_of_id', true),
     notes: col.text('notes'),
     version: col.int('version'),
     recordedBy: col.uuid('recorded_by', true),

@@ -29,6 +29,7 @@ export interface CouponRaw {
   evaluation: unknown;
   rulesVersion: string;
   qualificationId: string | null;
+  retestOfId: string | null;
   notes: string;
   version: number;
   createdAt: Date;
@@ -42,7 +43,6 @@ function couponsQuery(db: EntityManager, actor: Actor) {
     .innerJoin('Welder', 'w', 'w.id = c.welder_id')
     .innerJoin('Shop', 's', 's.id = c.shop_id')
     .innerJoin('Procedure', 'p', 'p.id = c.procedure_id')
-    .leftJoin('Qualification', 'q', 'q.coupon_id = c.id')
     .leftJoin('User', 'r', 'r.id = c.recorded_by')
     .select('c.id', 'id')
     .addSelect(`json_build_object('id', w.id, 'name', w.name, 'stamp', w.stamp)`, 'welder')
@@ -62,7 +62,12 @@ function couponsQuery(db: EntityManager, actor: Actor) {
     .addSelect('c.additional_criteria_id', 'additionalCriteriaId')
     .addSelect('c.evaluation', 'evaluation')
     .addSelect('c.rules_version', 'rulesVersion')
-    .addSelect('q.id', 'qualificationId')
+    // a combination coupon certifies one qualification per process: the first certified stands for them
+    .addSelect(
+      `(SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.created_at, q.id LIMIT 1)`,
+      'qualificationId',
+    )
+    .addSelect('c.retest_of_id', 'retestOfId')
     .addSelect('c.notes', 'notes')
     .addSelect('c.version', 'version')
     .addSelect('c.created_at', 'createdAt')
@@ -101,6 +106,8 @@ export interface LockedCoupon {
   /** The criteria set the examination was judged by (null: radiography/ultrasonics report). */
   criteriaId: string | null;
   qualificationId: string | null;
+  retestOfId: string | null;
+  retestBasis: string | null;
   snapshot: Record<string, unknown>;
 }
 
@@ -113,7 +120,8 @@ export async function lockCoupon(
   const rows: LockedCoupon[] = await db.query(
     `SELECT c.id, c.welder_id AS "welderId", to_char(c.tested_on, 'YYYY-MM-DD') AS "testedOn", c.code, c.process,
             c.coupon, c.result, c.version, c.criteria_id AS "criteriaId",
-            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id) AS "qualificationId",
+            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.created_at, q.id LIMIT 1) AS "qualificationId",
+            c.retest_of_id AS "retestOfId", c.examination->'retest'->>'basis' AS "retestBasis",
             json_build_object('shopId', c.shop_id, 'procedureId', c.procedure_id,
               'testedOn', to_char(c.tested_on, 'YYYY-MM-DD'), 'coupon', c.coupon, 'pipe', c.pipe,
               'pNumbers', c.p_numbers, 'examiner', c.examiner, 'labReportNumber', c.lab_report_number,
@@ -146,6 +154,7 @@ export type CouponWrite = Pick<
   | 'additionalCriteriaId'
   | 'evaluation'
   | 'rulesVersion'
+  | 'retestOfId'
   | 'notes'
 >;
 
@@ -197,21 +206,46 @@ export const passingTestDatesSql = (welder: string, process: string) =>
   `ARRAY(SELECT to_char(e.tested_on, 'YYYY-MM-DD') FROM coupons e
           WHERE e.welder_id = ${welder} AND e.process = ${process} AND e.result = 'accept' ORDER BY e.tested_on)`;
 
-/** A rejected coupon of the welder, for a retest to name. */
+/** A rejected coupon of the welder, for a retest to name, with what the retest must match. */
 export async function failedCouponOf(db: EntityManager, organizationId: string, welderId: string, id: string) {
-  const rows: { id: string; testedOn: string }[] = await db.query(
-    `SELECT id, to_char(tested_on, 'YYYY-MM-DD') AS "testedOn" FROM coupons
+  const rows: {
+    id: string;
+    testedOn: string;
+    code: string;
+    process: string;
+    position: string;
+    evaluation: { parts?: Array<{ kind: string; result: string }> } | null;
+    visual: string;
+  }[] = await db.query(
+    `SELECT id, to_char(tested_on, 'YYYY-MM-DD') AS "testedOn", code, process, coupon->>'position' AS position,
+            evaluation, visual
+       FROM coupons
       WHERE organization_id = $1 AND welder_id = $2 AND id = $3 AND result = 'reject'`,
     [organizationId, welderId, id],
   );
   return rows[0] ?? null;
 }
 
-/** The coupons already recorded as retests of a failed coupon (other than the one being edited). */
-export async function retestsOf(db: EntityManager, failedId: string, exceptId: string | null) {
-  return db.query<{ basis: string; result: 'accept' | 'reject' | 'replace-specimen' }[]>(
-    `SELECT examination->'retest'->>'basis' AS basis, result FROM coupons
-      WHERE examination->'retest'->>'of' = $1 AND ($2::uuid IS NULL OR id <> $2::uuid) ORDER BY tested_on, created_at`,
-    [failedId, exceptId],
+export interface RetestRow {
+  id: string;
+  retestOfId: string;
+  code: string;
+  basis: 'immediate' | 'after-training';
+  result: 'accept' | 'reject' | 'replace-specimen';
+  testedOn: string;
+  qualificationId: string | null;
+}
+
+/** Every coupon recorded as a retest of these failed coupons, in the order they were tested. */
+export async function retestsOf(db: EntityManager, failedIds: string[]): Promise<RetestRow[]> {
+  if (failedIds.length === 0) return [];
+  return db.query<RetestRow[]>(
+    `SELECT c.id, c.retest_of_id AS "retestOfId", c.code, c.examination->'retest'->>'basis' AS basis, c.result,
+            to_char(c.tested_on, 'YYYY-MM-DD') AS "testedOn",
+            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.created_at, q.id LIMIT 1) AS "qualificationId"
+       FROM coupons c
+      WHERE c.retest_of_id = ANY($1::uuid[])
+      ORDER BY c.tested_on, c.created_at, c.id`,
+    [failedIds],
   );
 }

@@ -4,7 +4,10 @@ import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import {
+  RETEST_RULES,
+  failedKindOf,
   couponRecordSchema,
+  type CodeId,
   upgradeExamination,
   type CouponRecord,
   type couponListQuery,
@@ -23,6 +26,8 @@ import { procedureForCoupon } from '../procedures/procedures.repository.js';
 import { attachmentRefs, evaluateCoupon, procedureProblem, type CouponFields } from './coupon-evaluation.js';
 import { refreshContinuityStates } from '../continuity/continuity-state.repository.js';
 import * as repo from './coupons.repository.js';
+import { retestSetOf, type RetestSet } from './retest-sets.js';
+import { CODE_NAMES } from '../documents/document-format.js';
 
 type CreateInput = z.output<typeof couponRecordInput>;
 type UpdateInput = z.output<typeof couponUpdateInput>;
@@ -42,7 +47,7 @@ function uploadIdsOf(rows: repo.CouponRaw[]): string[] {
   });
 }
 
-function toRecord(r: repo.CouponRaw, uploads: Map<string, Upload>): CouponRecord {
+function toRecord(r: repo.CouponRaw, uploads: Map<string, Upload>, retestRows: repo.RetestRow[]): CouponRecord {
   // rows written in the first shape ({ method, … }) by tools that insert directly are read in the current one
   const { visualFindings, ...ex } = upgradeExamination(r.examination) as repo.CouponRaw['examination'];
   const upload = (id: string | null | undefined) => (id && uploads.get(id)) || null;
@@ -53,17 +58,33 @@ function toRecord(r: repo.CouponRaw, uploads: Map<string, Upload>): CouponRecord
       : {}),
     ...(ex.volumetric ? { volumetric: { ...ex.volumetric, report: upload(ex.volumetric.reportUploadId) } } : {}),
   };
+  const basis = ex.retest?.basis;
+  const retestSet =
+    r.retestOfId && basis
+      ? retestSetOf(
+          r.coupon.code as CodeId,
+          retestRows.filter((x) => x.retestOfId === r.retestOfId),
+          { id: r.id, basis, result: r.result, testedOn: r.testedOn },
+        )
+      : null;
   return couponRecordSchema.parse({
     ...r,
     visualFindings: visualFindings ?? [],
     examination,
+    retestSet: retestSet ? { verdict: retestSet.verdict, coupons: retestSet.coupons } : null,
+    retests: retestRows
+      .filter((x) => x.retestOfId === r.id)
+      .map(({ id, testedOn, basis: b, result }) => ({ id, testedOn, basis: b, result })),
     createdAt: r.createdAt.toISOString(),
   });
 }
 
 async function toRecords(db: EntityManager, actor: Actor, rows: repo.CouponRaw[]): Promise<CouponRecord[]> {
   const uploads = await uploadsById(db, actor.organizationId, uploadIdsOf(rows));
-  return rows.map((r) => toRecord(r, uploads));
+  // the retests of the failed coupons listed, and the other coupons of each listed retest
+  const failedIds = [...new Set(rows.flatMap((r) => [r.id, ...(r.retestOfId ? [r.retestOfId] : [])]))];
+  const retestRows = await repo.retestsOf(db, failedIds);
+  return rows.map((r) => toRecord(r, uploads, retestRows));
 }
 
 export async function listCoupons(deps: AppDeps, actor: Actor, q: ListQuery) {
@@ -84,9 +105,10 @@ export async function getCoupon(
 }
 
 /**
- * A retest names the failed coupon it retests (QW-321, D1.1 retest, API 1104 retest): it must be a
- * rejected coupon of the same welder; its date, the retests already made of it and the verdicts of the
- * other coupons of an immediate retest are taken from the records, never from the request.
+ * A retest names the failed coupon it retests (QW-321, D1.1 retest, API 1104 retest): a rejected coupon of
+ * the same welder, code, process and position, tested on or before it. What failed, its date, the
+ * immediate retests already made of it and the verdicts of the other coupons of the same retest are taken
+ * from the records, never from the request.
  */
 async function linkRetest(
   db: EntityManager,
@@ -94,24 +116,45 @@ async function linkRetest(
   input: CouponFields,
   welderId: string,
   couponId: string | null,
-): Promise<CouponFields> {
+): Promise<{ fields: CouponFields; retestOfId: string | null }> {
   const retest = input.examination.retest;
-  if (!retest) return input;
-  const failed = isUuid(retest.of) ? await repo.failedCouponOf(db, actor.organizationId, welderId, retest.of) : null;
+  if (!retest) return { fields: input, retestOfId: null };
+  const failed =
+    isUuid(retest.of) && retest.of !== couponId
+      ? await repo.failedCouponOf(db, actor.organizationId, welderId, retest.of)
+      : null;
   if (!failed)
     throw AppError.validation({ 'examination.retest.of': 'Name a rejected coupon of this welder: the test this one retests' });
-  const others = await repo.retestsOf(db, retest.of, couponId);
+  const code = input.coupon.code;
+  const option = retest.basis === 'immediate' ? RETEST_RULES[code].immediate : RETEST_RULES[code].afterTraining;
+  const fields: Record<string, string> = {};
+  if (failed.code !== code || failed.process !== input.coupon.process)
+    fields['examination.retest.of'] =
+      `The failed coupon is a ${CODE_NAMES[failed.code as CodeId] ?? failed.code} ${failed.process} test: a retest is made with the same code and process (${option.clause})`;
+  else if (failed.position !== input.coupon.position)
+    fields['coupon.position'] =
+      `A retest is made in the position failed, ${failed.position} (${option.clause})`;
+  if (input.testedOn < failed.testedOn)
+    fields.testedOn = `A retest comes after the failed test of ${failed.testedOn}`;
+  if (Object.keys(fields).length > 0) throw AppError.validation(fields, 'The retest does not match the failed test');
+
+  const own = { id: couponId ?? 'new', basis: retest.basis, result: 'accept' as const, testedOn: input.testedOn };
+  const set = retestSetOf(code, await repo.retestsOf(db, [failed.id]), own);
   return {
-    ...input,
-    examination: {
-      ...input.examination,
-      retest: {
-        ...retest,
-        failedOn: failed.testedOn,
-        priorRetests: others.filter((o) => o.basis === 'immediate').length,
-        companions: others.filter((o) => o.basis === 'immediate').map((o) => o.result),
+    fields: {
+      ...input,
+      examination: {
+        ...input.examination,
+        retest: {
+          ...retest,
+          failedOn: failed.testedOn,
+          failedKind: failedKindOf(failed),
+          priorRetests: set.priorSets,
+          companions: set.coupons.filter((c) => c.id !== own.id).map((c) => c.result),
+        },
       },
     },
+    retestOfId: failed.id,
   };
 }
 
@@ -135,7 +178,8 @@ async function prepare(
   if (input.testedOn > (await companyToday(db, actor, deps.clock))) fields.testedOn = 'The test date cannot be in the future';
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
 
-  const evaluation = evaluateCoupon(await linkRetest(db, actor, input, welderId, couponId));
+  const linked = await linkRetest(db, actor, input, welderId, couponId);
+  const evaluation = evaluateCoupon(linked.fields);
   const refs = attachmentRefs(input);
   await checkAttachments(db, actor, refs);
   return {
@@ -158,6 +202,7 @@ async function prepare(
       additionalCriteriaId: evaluation.additionalCriteriaId,
       evaluation: evaluation.evaluation,
       rulesVersion: evaluation.rulesVersion,
+      retestOfId: linked.retestOfId,
       notes: input.notes,
     },
     uploadIds: refs.map((r) => r.id),
@@ -238,3 +283,20 @@ export async function lockCouponForCertification(db: EntityManager, actor: Actor
 }
 
 export { passingTestDatesSql } from './coupons.repository.js';
+
+/**
+ * For certification: a retest is certified only when the retest as a whole passed (an immediate retest of
+ * two coupons, both passing), and once — from one coupon of the set.
+ */
+export async function retestSetForCertification(
+  db: EntityManager,
+  coupon: { id: string; code: string; result: string; testedOn: string; retestOfId: string | null; basis: string | null },
+): Promise<RetestSet | null> {
+  if (!coupon.retestOfId || (coupon.basis !== 'immediate' && coupon.basis !== 'after-training')) return null;
+  return retestSetOf(coupon.code as CodeId, await repo.retestsOf(db, [coupon.retestOfId]), {
+    id: coupon.id,
+    basis: coupon.basis,
+    result: coupon.result as RetestSet['coupons'][number]['result'],
+    testedOn: coupon.testedOn,
+  });
+}

@@ -22,7 +22,7 @@ import { recordAudit } from '../lib/audit.js';
 import { todayIn } from '../lib/dates.js';
 import { companyTimeZone, companyToday } from '../settings/settings.repository.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
-import { getCoupon, lockCouponForCertification } from '../coupons/coupons.service.js';
+import { getCoupon, lockCouponForCertification, retestSetForCertification } from '../coupons/coupons.service.js';
 import { currentVerifyUrl } from '../verify/verify-tokens.service.js';
 import { renderWpqPdf } from '../documents/wpq-pdf.js';
 import { examinationPartsData, visualFindingLines } from '../documents/examination-parts.js';
@@ -134,6 +134,15 @@ export async function certifyCoupon(
       if (coupon.criteriaId !== null && coupon.criteriaId !== coupon.code)
         throw AppError.conflict(
           "This coupon was judged by in-house criteria instead of its code's; record it again judged by the code's criteria (in-house criteria can be added to them) before certifying",
+        );
+      // a retest qualifies only as a whole (QW-321.2: two consecutive coupons, all passing), and once
+      const set = await retestSetForCertification(db, { ...coupon, basis: coupon.retestBasis });
+      if (set && set.verdict.result !== 'accept')
+        throw AppError.conflict(`This coupon is part of a retest that has not passed as a whole: ${set.verdict.message} (${set.verdict.clause})`);
+      const certifiedTwin = set?.coupons.find((c) => c.id !== coupon.id && c.qualificationId);
+      if (certifiedTwin)
+        throw AppError.conflict(
+          `This retest is already certified from its coupon of ${certifiedTwin.testedOn}; one retest gives one qualification`,
         );
       const now = deps.clock.now();
       if (input.certifiedOn < coupon.testedOn)

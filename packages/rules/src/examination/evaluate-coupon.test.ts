@@ -4,6 +4,7 @@ import { type CouponInput } from '../schemas/coupon.js';
 import { type CouponEvaluationInput } from '../schemas/examination.js';
 import { fieldsThrown } from '../test-support/fields-thrown.js';
 import { evaluateCoupon } from './evaluate-coupon.js';
+import { retestOptions, retestSetVerdict } from './retests.js';
 
 const inch = (value: number) => ({ value, unit: 'in' as const });
 const mm = (value: number) => ({ value, unit: 'mm' as const });
@@ -379,40 +380,81 @@ describe('combination coupons (QW-306)', () => {
 });
 
 describe('retests linked to the failed test', () => {
-  const retest = (code: CouponInput['code'], r: NonNullable<CouponEvaluationInput['retest']>) =>
+  const retest = (code: CouponInput['code'], r: NonNullable<CouponEvaluationInput['retest']>, extra = {}) =>
     evaluateCoupon(
       input({
         coupon: code === 'asme-ix' ? asmePlate() : asmePlate({ code, depositedThickness: undefined }),
         retest: r,
+        ...extra,
       }),
     );
 
-  it('from memory: ASME IX QW-321.2 — an immediate retest is two coupons, all passing', () => {
-    expect(retest('asme-ix', { of: 'C-101', basis: 'immediate' }).result).toBe('incomplete');
-    expect(retest('asme-ix', { of: 'C-101', basis: 'immediate', companions: ['accept'] }).result).toBe(
-      'accept',
-    );
-    expect(retest('asme-ix', { of: 'C-101', basis: 'immediate', companions: ['reject'] }).result).toBe(
-      'reject',
-    );
+  it('from memory: ASME IX QW-321.2 — an immediate retest is two consecutive coupons, all passing; the first of the pair is a passing coupon awaiting the second', () => {
+    const first = retest('asme-ix', { of: 'C-101', basis: 'immediate' });
+    expect(first.result).toBe('accept');
+    expect(first.retest).toMatchObject({ result: 'awaiting', needed: 2, recorded: 1, clause: 'QW-321.2' });
+    const second = retest('asme-ix', { of: 'C-101', basis: 'immediate', companions: ['accept'] });
+    expect(second.result).toBe('accept');
+    expect(second.retest).toMatchObject({ result: 'accept', needed: 2, recorded: 2 });
+    // the second coupon passes its own examination, but the retest fails with the first
+    const afterFail = retest('asme-ix', { of: 'C-101', basis: 'immediate', companions: ['reject'] });
+    expect(afterFail.result).toBe('accept');
+    expect(afterFail.retest?.result).toBe('reject');
+    expect(afterFail.retest?.message).toMatch(/QW-321\.4/);
   });
 
-  it('from memory: ASME IX QW-321.3 — after further training, one complete retest', () => {
+  it('from memory: ASME IX QW-321.2 — a failing coupon of the pair fails the retest', () => {
+    const failing = retest(
+      'asme-ix',
+      { of: 'C-101', basis: 'immediate', companions: ['accept'] },
+      { bend: { specimens: [{ kind: 'face', discontinuities: [crack(0.2)] }, clean('root')] } },
+    );
+    expect(failing.result).toBe('reject');
+    expect(failing.retest?.result).toBe('reject');
+  });
+
+  it('from memory: ASME IX QW-321.3 — an immediate retest after a failed radiograph is radiographed too', () => {
+    const bent = retest('asme-ix', { of: 'C-101', basis: 'immediate', failedKind: 'volumetric' });
+    expect(bent.result).toBe('incomplete');
+    expect(bent.parts.at(-1)?.reasons[0]?.clause).toBe('QW-321.3');
+    expect(retest('asme-ix', { of: 'C-101', basis: 'after-training', failedKind: 'volumetric' }).result).toBe('accept');
+  });
+
+  it('from memory: ASME IX QW-321.4 — after further training, one new test', () => {
     const e = retest('asme-ix', { of: 'C-101', basis: 'after-training' });
     expect(e.result).toBe('accept');
+    expect(e.retest).toMatchObject({ result: 'accept', needed: 1, recorded: 1, clause: 'QW-321.4' });
     expect(e.parts.at(-1)?.notes[0]?.message).toMatch(/Retest of C-101/);
   });
 
-  it('from memory: API 1104 retesting — one second opportunity, then only after documented training', () => {
+  it('from memory: AWS D1.1-2015 4.24.1.1 — an immediate retest is two welds of the type failed', () => {
+    const e = retest('aws-d1.1', { of: 'C-9', basis: 'immediate' });
+    expect(e.retest).toMatchObject({ result: 'awaiting', needed: 2, clause: 'AWS D1.1 4.24.1.1 (2015)' });
+    expect(retestOptions('aws-d1.1').map((o) => [o.basis, o.coupons, o.clause])).toEqual([
+      ['immediate', 2, 'AWS D1.1 4.24.1.1 (2015)'],
+      ['after-training', 1, 'AWS D1.1 4.24.1.2 (2015)'],
+    ]);
+  });
+
+  it('from memory: API 1104 6.7 — one second opportunity, then only after documented training', () => {
     const api = (r: NonNullable<CouponEvaluationInput['retest']>) =>
       evaluateCoupon({
         coupon: apiPipe('5G', 6.625),
         visual: ok,
         volumetric: { method: 'radiography', indications: [] },
         retest: r,
-      }).result;
-    expect(api({ of: 'C-7', basis: 'immediate' })).toBe('accept');
-    expect(api({ of: 'C-7', basis: 'immediate', priorRetests: 1 })).toBe('incomplete');
-    expect(api({ of: 'C-7', basis: 'after-training', priorRetests: 1 })).toBe('accept');
+      });
+    expect(api({ of: 'C-7', basis: 'immediate' }).result).toBe('accept');
+    expect(api({ of: 'C-7', basis: 'immediate' }).retest).toMatchObject({ result: 'accept', needed: 1 });
+    expect(api({ of: 'C-7', basis: 'immediate', priorRetests: 1 }).result).toBe('incomplete');
+    expect(api({ of: 'C-7', basis: 'after-training', priorRetests: 1 }).result).toBe('accept');
+  });
+
+  it('common practice (no source): a retest set is judged from every coupon recorded as it', () => {
+    expect(retestSetVerdict('asme-ix', 'immediate', ['accept']).result).toBe('awaiting');
+    expect(retestSetVerdict('asme-ix', 'immediate', ['accept', 'accept']).result).toBe('accept');
+    expect(retestSetVerdict('asme-ix', 'immediate', ['accept', 'replace-specimen']).result).toBe('awaiting');
+    expect(retestSetVerdict('asme-ix', 'immediate', ['reject']).result).toBe('reject');
+    expect(retestSetVerdict('asme-ix', 'after-training', ['accept']).result).toBe('accept');
   });
 });

@@ -41,7 +41,7 @@ import {
   type PartVerdict,
   type Reason,
 } from './judges.js';
-import { retestVerdict } from './retests.js';
+import { RETEST_RULES, retestVerdict, type RetestSetVerdict } from './retests.js';
 
 type Parsed = ReturnType<typeof parse>;
 const parse = (input: CouponEvaluationInput) => parseInput(couponEvaluationInputSchema, input);
@@ -365,7 +365,18 @@ export function evaluateCoupon(input: CouponEvaluationInput): CouponEvaluation {
     }
     if (p.layers) parts.push(combinationPart(p, p.layers));
   }
-  if (p.retest) parts.push(part('retest', retestVerdict(code, p.retest), []));
+  let retest: RetestSetVerdict | undefined;
+  if (p.retest) {
+    const own = worst(parts.map((x) => x.result));
+    const v = retestVerdict(code, p.retest, { result: own, volumetric: p.volumetric !== undefined });
+    retest = v.set;
+    const option = p.retest.basis === 'immediate' ? RETEST_RULES[code].immediate : RETEST_RULES[code].afterTraining;
+    parts.push(
+      part('retest', v, [
+        { id: `${code}-retest`, name: 'Retest', clause: option.clause, source: option.source },
+      ]),
+    );
+  }
 
   const result = worst(parts.map((x) => x.result));
   // one failure fails every process of a combination coupon
@@ -379,5 +390,6 @@ export function evaluateCoupon(input: CouponEvaluationInput): CouponEvaluation {
     additionalCriteria: additional ? refOf(additional) : null,
     rulesVersion: RULES_VERSION,
     notice: RANGES_NOTICE,
+    ...(retest ? { retest } : {}),
   };
 }

@@ -154,6 +154,7 @@ export const depositLayerSchema = z.object({
 export type DepositLayer = z.input<typeof depositLayerSchema>;
 
 export const retestBases = ['immediate', 'after-training'] as const;
+export type RetestBasis = (typeof retestBases)[number];
 export const retestSchema = z.object({
   /** The failed test this one retests (its record id or report number). */
   of: z.string().trim().min(1, 'Name the failed test').max(60),
@@ -163,7 +164,7 @@ export const retestSchema = z.object({
   basis: z.enum(retestBases, { error: 'Say whether this is an immediate retest or a retest after training' }),
   /** Retests already made after the failed test (0 for the first retest). */
   priorRetests: z.number().int().min(0).max(20).optional(),
-  /** Immediate retests made of two coupons: the verdicts of the other coupon(s) of this retest. */
+  /** The verdicts of the other coupon(s) recorded as this same retest (an immediate retest of two coupons). */
   companions: z.array(z.enum(couponResults)).max(3).optional(),
 });
 export type Retest = z.input<typeof retestSchema>;
@@ -234,6 +235,15 @@ export const evaluationPartSchema = z.object({
 });
 export type EvaluationPart = z.infer<typeof evaluationPartSchema>;
 
+export const retestSetSchema = z.object({
+  result: z.enum(['accept', 'reject', 'awaiting']),
+  basis: z.enum(retestBases),
+  needed: z.number().int(),
+  recorded: z.number().int(),
+  clause: z.string(),
+  message: z.string(),
+});
+
 export const couponEvaluationSchema = z.object({
   result: z.enum(couponResults),
   parts: z.array(evaluationPartSchema),
@@ -244,6 +254,8 @@ export const couponEvaluationSchema = z.object({
   additionalCriteria: criteriaRefSchema.nullable(),
   rulesVersion: z.string(),
   notice: z.string(),
+  /** A retest: the retest as a whole (this coupon and the others recorded as the same retest). */
+  retest: retestSetSchema.optional(),
 });
 export type CouponEvaluation = z.infer<typeof couponEvaluationSchema>;
 

@@ -21,7 +21,9 @@ import {
   filletBreakSchema,
   macroEtchSchema,
   nickBreakSpecimenSchema,
+  retestBases,
   retestSchema,
+  retestSetSchema,
   visualExaminationSchema,
   visualFindingSchema,
   volumetricExaminationSchema,
@@ -294,6 +296,34 @@ export const couponRecordSchema = z.object({
   rulesVersion: z.string(),
   /** The qualification certified from this coupon, if any. */
   qualificationId: z.string().nullable(),
+  /** The failed coupon this one retests (examination.retest names it too). */
+  retestOfId: z.string().nullable().default(null),
+  /** A retest: the retest as a whole, judged over every coupon recorded as it (certification waits for it). */
+  retestSet: z
+    .object({
+      verdict: retestSetSchema,
+      coupons: z.array(
+        z.object({
+          id: z.string(),
+          testedOn: z.string(),
+          result: z.enum(examinationResults),
+          qualificationId: z.string().nullable(),
+        }),
+      ),
+    })
+    .nullable()
+    .default(null),
+  /** A failed coupon: the coupons recorded as its retests, in the order tested. */
+  retests: z
+    .array(
+      z.object({
+        id: z.string(),
+        testedOn: z.string(),
+        basis: z.enum(retestBases),
+        result: z.enum(examinationResults),
+      }),
+    )
+    .default([]),
   notes: z.string(),
   version: z.number().int(),
   createdAt: z.string(),

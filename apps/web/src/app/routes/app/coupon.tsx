@@ -19,6 +19,7 @@ import { paths } from '@/config/paths';
 import { useCertifyCoupon } from '@/features/coupons/api/certify-coupon';
 import { couponQueries } from '@/features/coupons/api/coupon-queries';
 import { ExaminationDetails } from '@/features/coupons/components/examination-details';
+import { RETEST_BASIS_WORDS } from '@/features/coupons/model/examination-words';
 import { codeNames } from '@/lib/codes';
 import { qualificationQueries } from '@/features/qualifications/api/qualification-queries';
 import { ApiError } from '@/lib/api-client';
@@ -136,8 +137,11 @@ export default function CouponRoute() {
     );
   const c = coupon.data;
   const isQa = me.role === 'qa_manager';
-  const canCertify = isQa && c.result === 'accept' && !c.qualificationId;
-  const retestHref = paths.couponNew.href({ welderId: c.welder.id, code: c.coupon.code, process: c.coupon.process, position: c.coupon.position, form: c.coupon.form, retest: '1' });
+  // a retest qualifies only as a whole (an immediate retest of two coupons, both passing), and once
+  const set = c.retestSet;
+  const setCertified = set?.coupons.some((x) => x.id !== c.id && x.qualificationId) ?? false;
+  const canCertify = isQa && c.result === 'accept' && !c.qualificationId && (!set || set.verdict.result === 'accept') && !setCertified;
+  const retestHref = paths.couponNew.href({ retestOf: c.id });
 
   return (
     <>
@@ -160,7 +164,7 @@ export default function CouponRoute() {
                 Certify
               </Button>
             )}
-            {isQa && c.result !== 'accept' && (
+            {isQa && c.result === 'reject' && (
               <ButtonLink variant="primary" to={retestHref}>
                 Record a retest
               </ButtonLink>
@@ -238,6 +242,61 @@ export default function CouponRoute() {
               <p className="mt-1 text-xs text-stone-500">{STORED_CAUTION}</p>
             </section>
           </Card>
+          {set && (
+            <Card className="p-4">
+              <section aria-label="Retest">
+                <h2 className="font-bold">Retest</h2>
+                <p className="mt-1 text-sm">
+                  {RETEST_BASIS_WORDS[set.verdict.basis]} of the{' '}
+                  <Link className="font-semibold text-accent-700 underline" to={paths.coupon.href(c.retestOfId ?? '')}>
+                    failed coupon{c.examination.retest?.failedOn ? ` of ${c.examination.retest.failedOn}` : ''}
+                  </Link>
+                  .
+                </p>
+                <p className="mt-2 text-sm" data-retest={set.verdict.result}>
+                  <span className="font-semibold">
+                    The retest as a whole: {set.verdict.result === 'accept' ? 'passed' : set.verdict.result === 'reject' ? 'failed' : `waiting (${set.verdict.recorded} of ${set.verdict.needed} coupons)`}.
+                  </span>{' '}
+                  {set.verdict.message} <span className="whitespace-nowrap rounded bg-stone-100 px-1 text-xs font-semibold">{set.verdict.clause}</span>
+                </p>
+                {set.coupons.length > 1 && (
+                  <ul className="mt-2 space-y-1 text-sm">
+                    {set.coupons.map((x) => (
+                      <li key={x.id} className="flex items-center gap-2">
+                        {x.id === c.id ? <span className="tabular-nums">{x.testedOn} (this coupon)</span> : <Link className="tabular-nums font-semibold text-accent-700 underline" to={paths.coupon.href(x.id)}>{x.testedOn}</Link>}
+                        <StatusChip status={`coupon.${x.result}`} />
+                      </li>
+                    ))}
+                  </ul>
+                )}
+                {set.verdict.result === 'awaiting' && isQa && (
+                  <p className="mt-2 text-sm">
+                    <Link className="font-semibold text-accent-700 underline" to={paths.couponNew.href({ retestOf: c.retestOfId ?? '' })}>
+                      Record the next coupon of this retest
+                    </Link>
+                  </p>
+                )}
+              </section>
+            </Card>
+          )}
+          {c.retests.length > 0 && (
+            <Card className="p-4">
+              <section aria-label="Retests of this coupon">
+                <h2 className="font-bold">Retests of this coupon</h2>
+                <ul className="mt-2 space-y-1 text-sm">
+                  {c.retests.map((r) => (
+                    <li key={r.id} className="flex items-center gap-2">
+                      <Link className="tabular-nums font-semibold text-accent-700 underline" to={paths.coupon.href(r.id)}>
+                        {r.testedOn}
+                      </Link>
+                      <span>{RETEST_BASIS_WORDS[r.basis]}</span>
+                      <StatusChip status={`coupon.${r.result}`} />
+                    </li>
+                  ))}
+                </ul>
+              </section>
+            </Card>
+          )}
           <Card className="p-4">
             <h2 className="font-bold">Qualification</h2>
             {c.qualificationId ? (
@@ -248,12 +307,16 @@ export default function CouponRoute() {
                 </Link>
                 .
               </p>
+            ) : c.result === 'accept' && set && set.verdict.result !== 'accept' ? (
+              <p className="mt-1 text-sm text-stone-700">This coupon passed, but the retest it belongs to has not passed as a whole: it cannot be certified yet.</p>
+            ) : c.result === 'accept' && setCertified ? (
+              <p className="mt-1 text-sm text-stone-700">This retest is already certified from its other coupon.</p>
             ) : c.result === 'accept' ? (
               <p className="mt-1 text-sm text-stone-700">Passed and not yet certified.{isQa ? ' Certify it to issue the qualification record.' : ''}</p>
             ) : (
               <p className="mt-1 text-sm text-stone-700">
-                This coupon did not pass; it stays on the welder file with its reasons.
-                {isQa && (
+                {c.result === 'reject' ? 'This coupon did not pass; it stays on the welder file with its reasons.' : 'A specimen is to be replaced: the coupon has no final verdict until the replacement specimen from the same coupon is judged.'}
+                {isQa && c.result === 'reject' && (
                   <>
                     {' '}
                     <Link className="font-semibold text-accent-700 underline" to={retestHref}>

@@ -5,9 +5,10 @@ import { QueryClient, QueryClientProvider } from '@tanstack/react-query';
 import { render, screen, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { useState } from 'react';
+import { MemoryRouter } from 'react-router-dom';
 import { describe, expect, it, vi } from 'vitest';
 import { SizeField } from '@/components/ui/size-field';
-import { analyseDraft, emptyDraft, newDiscontinuity, newFinding, newIndication, newLayer, newNickBreak, newSpecimen, toRecordInput, type CouponDraft } from '../model/coupon-draft';
+import { analyseDraft, emptyDraft, newDiscontinuity, newFinding, newIndication, newLayer, newNickBreak, newSpecimen, toRecordInput, type CouponDraft, type RetestTarget } from '../model/coupon-draft';
 import { CouponForm } from './coupon-form';
 import { PipeSizeFields } from './pipe-size-fields';
 import { VerdictPanel } from './verdict-panel';
@@ -458,5 +459,94 @@ describe('the whole examination, judged live with the coupon (the rules the serv
     expect(a.verdict).toBe('reject');
     const input = toRecordInput(d, a).input;
     expect(input?.visual).toEqual({ result: 'accept', findings: [{ type: 'crack', size: { value: 1 / 16, unit: 'in' } }] });
+  });
+});
+
+/** A rejected ASME IX 1G plate coupon of the welder, as the coupon page hands it to "Record a retest". */
+const failedCoupon = (retests: RetestTarget['retests'] = []): RetestTarget => ({
+  id: '3c2b1a09-8f7e-4d6c-9b5a-4a3b2c1d0e9f',
+  welder: { id: welderId, name: 'Test Welder', stamp: 'PV-07' },
+  testedOn: '2026-01-10',
+  coupon: {
+    code: 'asme-ix',
+    process: 'SMAW',
+    form: 'plate',
+    weld: 'groove',
+    position: '1G',
+    thickness: { value: 0.25, unit: 'in' },
+    backing: false,
+    fNumber: 4,
+  },
+  reasons: [{ clause: 'ASME IX QW-163', message: 'Root bend: a 3/16 in crack (allowed 1/8 in).' }],
+  visual: 'accept',
+  evaluation: null,
+  retests,
+});
+
+function renderRetest(failed: RetestTarget) {
+  const client = new QueryClient({ defaultOptions: { queries: { retry: false }, mutations: { retry: false } } });
+  return render(
+    <MemoryRouter>
+      <QueryClientProvider client={client}>
+        <CouponForm welders={[welder]} shops={[welder.homeShop]} procedures={[]} prefill={{ retestOf: failed }} onSaved={vi.fn()} onCancel={vi.fn()} />
+      </QueryClientProvider>
+    </MemoryRouter>,
+  );
+}
+
+describe('a retest of a failed coupon', { timeout: 60_000 }, () => {
+  it('names the failed coupon, offers the retests the code allows with their clauses, and judges the first coupon of an immediate retest live as passing and awaiting the second (from memory: ASME IX QW-321.2, QW-321.4)', async () => {
+    const user = userEvent.setup();
+    renderRetest(failedCoupon());
+    const part = screen.getByRole('group', { name: 'Retest' });
+    expect(within(part).getByText(/Retest of the coupon of/)).toBeTruthy();
+    expect(within(part).getByText('2026-01-10')).toBeTruthy();
+    expect(within(part).getByText('QW-321.2')).toBeTruthy();
+    expect(within(part).getByText('QW-321.4')).toBeTruthy();
+    // the retest is made by the same welder in the same code, process and position
+    expect(screen.getByLabelText<HTMLSelectElement>('Welder').disabled).toBe(true);
+    expect(screen.getByLabelText<HTMLSelectElement>('Test position').value).toBe('1G');
+    expect(screen.getByLabelText<HTMLSelectElement>('Test position').disabled).toBe(true);
+
+    await user.selectOptions(screen.getByLabelText('Backing'), 'without');
+    await user.type(screen.getByLabelText('Coupon thickness'), '1/4');
+    await user.selectOptions(screen.getByLabelText('Visual examination'), 'accept');
+    await user.click(screen.getByRole('checkbox', { name: 'Specimen 1 (face) examined' }));
+    await user.click(screen.getByRole('checkbox', { name: 'Specimen 2 (root) examined' }));
+    const panel = screen.getByRole('region', { name: 'Evaluation' });
+    // no kind of retest chosen yet: no verdict
+    expect(within(panel).queryByText('Accept')).toBeNull();
+    await user.click(within(part).getByRole('radio', { name: /Immediate retest \(2 coupons\)/ }));
+    expect(within(panel).getByText('Accept')).toBeTruthy();
+    expect(within(panel).getByText(/Retest as a whole: 1 of 2 coupons/)).toBeTruthy();
+    expect(part.querySelector('[data-retest]')?.getAttribute('data-retest')).toBe('awaiting');
+
+    await user.click(within(part).getByRole('radio', { name: /Retest after further training/ }));
+    expect(part.querySelector('[data-retest]')?.getAttribute('data-retest')).toBe('accept');
+  });
+
+  it('sends the link to the failed coupon with the kind of retest, and shows an immediate retest failed when its other coupon failed (from memory: ASME IX QW-321.2)', () => {
+    const failed = failedCoupon([{ id: 'f0e1d2c3-b4a5-4968-8776-655443322110', testedOn: '2026-01-12', basis: 'immediate', result: 'reject' }]);
+    const d: CouponDraft = {
+      ...emptyDraft({ retestOf: failed }),
+      shopId,
+      procedureId,
+      thicknessText: '1/4',
+      backing: 'without',
+      fNumberText: '4',
+      examinerName: 'Test Examiner',
+      visual: 'accept',
+      specimensChosen: true,
+      specimens: [{ ...newSpecimen('face'), examined: true }, { ...newSpecimen('root'), examined: true }],
+      retestBasis: 'immediate',
+    };
+    expect(d.welderId).toBe(welderId);
+    const a = analyseDraft(d);
+    expect(a.verdict).toBe('accept');
+    expect(a.evaluation?.retest).toMatchObject({ result: 'reject', needed: 2, recorded: 2 });
+    const { input, errors } = toRecordInput(d, a);
+    expect(errors).toEqual({});
+    expect(input?.claimedResult).toBe('accept');
+    expect((input?.examination as RecordedExaminationInput).retest).toMatchObject({ of: failed.id, basis: 'immediate' });
   });
 });

@@ -43,7 +43,7 @@ import { PipeSizeFields } from './pipe-size-fields';
 import { SizeField } from '@/components/ui/size-field';
 import { SpecimenEditor } from './specimen-editor';
 import { VerdictPanel } from './verdict-panel';
-import { CombinationLayers, FilletParts, NickBreaks, VisualFindings, VolumetricPart } from './examination-parts';
+import { CombinationLayers, FilletParts, NickBreaks, RetestPart, VisualFindings, VolumetricPart } from './examination-parts';
 
 
 const FIELD_WORDS: Record<string, string> = {
@@ -154,6 +154,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
   };
 
   const summary = Object.entries(errors);
+  const retest = draft.retestOf !== null;
   const parts = partsOf(draft);
   const vertical = analysis.ranges ? analysis.ranges.positions.groove.includes('V') || analysis.ranges.positions.fillet.includes('V') : false;
 
@@ -172,6 +173,8 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
             <SelectField
               label="Welder"
               value={draft.welderId}
+              disabled={retest}
+              hint={retest ? 'A retest is made by the welder who failed the test.' : undefined}
               error={errorFor(errors, 'welderId')}
               onChange={(e) => {
                 const w = welders.find((x) => x.id === e.target.value);
@@ -179,6 +182,11 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               }}
             >
               <option value="">Choose a welder…</option>
+              {draft.retestOf && !welders.some((w) => w.id === draft.retestOf?.welder.id) && (
+                <option value={draft.retestOf.welder.id}>
+                  {draft.retestOf.welder.stamp} · {draft.retestOf.welder.name}
+                </option>
+              )}
               {welders.map((w) => (
                 <option key={w.id} value={w.id}>
                   {w.stamp} · {w.name}
@@ -197,6 +205,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
             <SelectField
               label="Code"
               value={draft.code}
+              disabled={retest}
               error={errorFor(errors, 'coupon.code')}
               onChange={(e) => {
                 const code = e.target.value as CouponDraft['code'];
@@ -211,7 +220,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
                 </option>
               ))}
             </SelectField>
-            <SelectField label="Process" value={draft.process} error={errorFor(errors, 'coupon.process')} onChange={(e) => change({ process: e.target.value as CouponDraft['process'], procedureId: '' }, 'coupon.process', 'procedureId')}>
+            <SelectField label="Process" value={draft.process} disabled={retest} error={errorFor(errors, 'coupon.process')} onChange={(e) => change({ process: e.target.value as CouponDraft['process'], procedureId: '' }, 'coupon.process', 'procedureId')}>
               <option value="">Choose the process…</option>
               {processes.map((p) => (
                 <option key={p} value={p}>
@@ -256,6 +265,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
             <SelectField
               label="Plate or pipe"
               value={draft.form}
+              disabled={retest}
               onChange={(e) => {
                 const form = e.target.value as CouponDraft['form'];
                 const position = positionsOffered(draft.code, form, draft.weld).some((p) => p === draft.position) ? draft.position : '';
@@ -273,7 +283,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
               <option value="groove">Groove weld</option>
               <option value="fillet">Fillet weld</option>
             </SelectField>
-            <SelectField label="Test position" value={draft.position} error={errorFor(errors, 'coupon.position')} onChange={(e) => change({ position: e.target.value }, 'coupon.position')}>
+            <SelectField label="Test position" value={draft.position} disabled={retest} hint={retest ? 'A retest is made in the position failed.' : undefined} error={errorFor(errors, 'coupon.position')} onChange={(e) => change({ position: e.target.value }, 'coupon.position')}>
               <option value="">Choose the position…</option>
               {positionsOffered(draft.code, draft.form, draft.weld).map((p) => (
                   <option key={p} value={p}>
@@ -415,6 +425,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
           {parts.fillet && <FilletParts draft={draft} errors={errors} change={change} />}
           {parts.nickBreak && <NickBreaks draft={draft} errors={errors} change={change} hint={parts.bend ? analysis.proposal?.text : undefined} />}
           <CombinationLayers draft={draft} errors={errors} change={change} />
+          <RetestPart draft={draft} errors={errors} change={change} set={analysis.evaluation?.retest ?? null} />
           <TextField label="Notes" wrapperClassName="mt-3" value={draft.notes} error={errorFor(errors, 'notes')} onChange={(e) => change({ notes: e.target.value }, 'notes')} />
         </Section>
       </div>

@@ -1,8 +1,10 @@
 // The parts of a coupon's examination other than the bend specimens: visual findings, radiography or
 // ultrasonic indications by type and size, the fillet weld break and macro-etch of a fillet coupon,
-// API 1104 nick-breaks, and the processes of a combination coupon. Each part is marked examined before
+// API 1104 nick-breaks, the processes of a combination coupon, and a retest's link to the failed test. Each part is marked examined before
 // it is judged; sizes are typed as on the bend specimens ('1/16', '1.5 mm').
-import { indicationTypes, lengthBounds, processes, visualFindingTypes } from '@beadroll/rules';
+import { indicationTypes, lengthBounds, processes, retestOptions, visualFindingTypes, type RetestSetVerdict } from '@beadroll/rules';
+import { Link } from 'react-router-dom';
+import { paths } from '@/config/paths';
 import type { ReactNode } from 'react';
 import { Button } from '@/components/ui/button';
 import { Checkbox, SelectField, TextField } from '@/components/ui/field';
@@ -17,7 +19,7 @@ import {
   type CouponDraft,
   type Errors,
 } from '../model/coupon-draft';
-import { INDICATION_WORDS, VISUAL_FINDING_WORDS } from '../model/examination-words';
+import { INDICATION_WORDS, RETEST_BASIS_WORDS, VISUAL_FINDING_WORDS } from '../model/examination-words';
 
 type Change = (next: Partial<CouponDraft>, ...paths: string[]) => void;
 interface PartProps {
@@ -212,5 +214,56 @@ export function CombinationLayers({ draft, errors, change }: PartProps) {
         </Part>
       )}
     </div>
+  );
+}
+
+/**
+ * A retest (the coupon page's "Record a retest" passes the failed coupon): which failed coupon, the kinds
+ * of retest the code allows with their clause, the retests already made of it, and the retest as a whole.
+ */
+export function RetestPart({ draft, errors, change, set }: PartProps & { set: RetestSetVerdict | null }) {
+  const failed = draft.retestOf;
+  if (!failed || !draft.code) return null;
+  const options = retestOptions(draft.code);
+  return (
+    <Part title="Retest" error={errorFor(errors, 'examination.retest.of')}>
+      <p className="text-sm text-stone-800">
+        Retest of the coupon of <span className="tabular-nums">{failed.testedOn}</span> ({failed.coupon.process}, {failed.coupon.position} {failed.coupon.form}), which did not pass
+        {failed.reasons[0] ? `: ${failed.reasons[0].message}` : '.'}{' '}
+        <Link className="font-semibold text-accent-700 underline" to={paths.coupon.href(failed.id)}>
+          Open the failed coupon
+        </Link>
+      </p>
+      {failed.retests.length > 0 && (
+        <p className="mt-1 text-sm text-stone-700">
+          Retests already recorded of it:{' '}
+          {failed.retests.map((r) => `${r.testedOn} (${RETEST_BASIS_WORDS[r.basis].toLowerCase()}, ${r.result === 'accept' ? 'passed' : r.result === 'reject' ? 'failed' : 'specimen to replace'})`).join('; ')}.
+        </p>
+      )}
+      <div role="radiogroup" aria-label="Kind of retest" className="mt-3 space-y-2">
+        {options.map((o) => (
+          <label key={o.basis} className="flex min-h-11 items-start gap-2 rounded-md border border-stone-200 p-2 text-sm">
+            <input
+              type="radio"
+              name="retest-basis"
+              className="mt-1"
+              checked={draft.retestBasis === o.basis}
+              onChange={() => change({ retestBasis: o.basis }, 'examination.retest', 'claimedResult')}
+            />
+            <span>
+              <span className="font-semibold">{RETEST_BASIS_WORDS[o.basis]}</span>
+              {o.coupons > 1 ? ` (${o.coupons} coupons)` : ''}: {o.text} <span className="whitespace-nowrap rounded bg-stone-100 px-1 text-xs font-semibold">{o.clause}</span>
+            </span>
+          </label>
+        ))}
+      </div>
+      {errorFor(errors, 'examination.retest.basis') && <p className="mt-1 text-sm text-red-700">{errorFor(errors, 'examination.retest.basis')}</p>}
+      {set && (
+        <p className="mt-3 rounded-md bg-stone-50 px-3 py-2 text-sm text-stone-800" data-retest={set.result}>
+          <span className="font-semibold">The retest as a whole: {set.result === 'accept' ? 'passes' : set.result === 'reject' ? 'fails' : `${set.recorded} of ${set.needed} coupons`}.</span> {set.message}{' '}
+          <span className="whitespace-nowrap rounded bg-white px-1 text-xs font-semibold">{set.clause}</span>
+        </p>
+      )}
+    </Part>
   );
 }

@@ -35,6 +35,14 @@ export function VerdictPanel({ analysis }: { analysis: Pick<DraftAnalysis, 'verd
             ))}
           </ul>
         )}
+        {verdict && evaluation?.retest && (
+          <p className="mt-2 rounded-md bg-stone-50 px-3 py-2 text-sm text-stone-800">
+            <span className="font-semibold">
+              Retest as a whole: {evaluation.retest.result === 'accept' ? 'passes' : evaluation.retest.result === 'reject' ? 'fails' : `${evaluation.retest.recorded} of ${evaluation.retest.needed} coupons`}.
+            </span>{' '}
+            {evaluation.retest.message}
+          </p>
+        )}
         {verdict === 'accept' && reasons.length === 0 && (
           <p className="mt-2 text-sm text-stone-700">Every part of the examination meets the criteria.</p>
         )}

@@ -19,6 +19,8 @@ import {
   proposeBendSpecimens,
   qualifiedRanges,
   RulesInputError,
+  retestSetOf,
+  failedKindOf,
   type BendSpecimenProposal,
   type CouponEvaluation,
   type CouponEvaluationInput,
@@ -26,7 +28,9 @@ import {
   type VisualFindingType,
   type CodeId,
   type CouponInput,
+  type CouponRecord,
   type CouponRecordInput,
+  type RetestBasis,
   type CriteriaId,
   type discontinuityTypes,
   type Length,
@@ -38,6 +42,7 @@ import {
   type TestPosition,
   type TransferMode,
   type Upload,
+  type CouponResult,
 } from '@beadroll/rules';
 
 export type Errors = Record<string, string>;
@@ -135,8 +140,14 @@ export interface CouponDraft {
   /** A combination coupon: each process with the weld metal it deposited, root first (QW-306). */
   combination: boolean;
   layers: LayerDraft[];
+  /** A retest: the failed coupon it retests (the coupon page's "Record a retest" passes it) and its kind. */
+  retestOf: RetestTarget | null;
+  retestBasis: RetestBasis | '';
   notes: string;
 }
+
+/** The failed coupon a retest names, with the retests already recorded of it (in the order tested). */
+export type RetestTarget = Pick<CouponRecord, 'id' | 'welder' | 'testedOn' | 'coupon' | 'reasons' | 'retests' | 'visual' | 'evaluation'>;
 
 let counter = 0;
 export const newKey = (): string => `k${(counter += 1)}`;
@@ -159,6 +170,8 @@ export const newSpecimen = (kind: SpecimenKind): SpecimenDraft => ({ key: newKey
 export const todayIso = (): string => new Date().toISOString().slice(0, 10);
 
 export interface DraftPrefill {
+  /** The failed coupon a retest names; its welder, code, process, position and form are the retest's. */
+  retestOf?: RetestTarget;
   welderId?: string;
   shopId?: string;
   code?: string;
@@ -171,6 +184,8 @@ const codes: readonly string[] = ['asme-ix', 'aws-d1.1', 'api-1104', 'iso-9606-1
 const processList: readonly string[] = ['SMAW', 'GTAW', 'GMAW', 'FCAW', 'SAW', 'PAW', 'OFW'];
 
 export function emptyDraft(prefill: DraftPrefill = {}): CouponDraft {
+  const failed = prefill.retestOf?.coupon;
+  if (failed) prefill = { ...prefill, welderId: prefill.retestOf?.welder.id, code: failed.code, process: failed.process, position: failed.position, form: failed.form };
   const code = prefill.code && codes.includes(prefill.code) ? (prefill.code as CodeId) : '';
   const position = prefill.position ?? '';
   return {
@@ -214,7 +229,28 @@ export function emptyDraft(prefill: DraftPrefill = {}): CouponDraft {
     nickBreaks: [],
     combination: false,
     layers: [],
+    retestOf: prefill.retestOf ?? null,
+    retestBasis: '',
     notes: '',
+  };
+}
+
+/**
+ * The retest as the server will link it: the other coupons of the same retest (an immediate retest of two
+ * coupons is the next two immediate coupons of the failed one) and the immediate retests made before it.
+ */
+export function retestLink(d: Pick<CouponDraft, 'retestOf' | 'retestBasis' | 'code'>, own: CouponResult = 'accept') {
+  if (!d.retestOf || !d.retestBasis || !d.code) return null;
+  const rows = d.retestOf.retests.map((r) => ({ id: r.id, basis: r.basis, result: r.result }));
+  const set = retestSetOf(d.code, rows, { id: 'this coupon', basis: d.retestBasis, result: own });
+  return {
+    of: d.retestOf.id,
+    basis: d.retestBasis,
+    failedOn: d.retestOf.testedOn,
+    failedKind: failedKindOf(d.retestOf),
+    priorRetests: set.priorSets,
+    companions: set.coupons.filter((c) => c.id !== 'this coupon').map((c) => c.result),
+    set,
   };
 }
 
@@ -499,6 +535,11 @@ function examinationOf(d: CouponDraft, errors: Errors, sizes: Record<string, Par
         gasPockets: readList(n.gasPocketsText, `examination.nickBreak.specimens.${i}.gasPockets`, errors),
       })),
     };
+  const retest = retestLink(d);
+  if (d.retestOf)
+    ex.retest = retest
+      ? { of: retest.of, basis: retest.basis, failedOn: retest.failedOn, failedKind: retest.failedKind, priorRetests: retest.priorRetests, companions: retest.companions }
+      : { of: d.retestOf.id, basis: undefined };
   if (d.combination)
     ex.layers = d.layers.map((l, i) => ({
       process: l.process || undefined,
