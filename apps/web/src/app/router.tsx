@@ -68,6 +68,8 @@ export function createRouter(queryClient: QueryClient) {
         { path: paths.lapseWatch.path, lazy: page(() => import('./routes/app/lapse-watch')) },
         { path: paths.settings.path, lazy: page(() => import('./routes/app/settings')) },
         { path: paths.imports.path, lazy: page(() => import('./routes/app/imports')) },
+        { path: paths.apiTokens.path, lazy: page(() => import('./routes/app/api-tokens')) },
+        { path: paths.reports.path, lazy: page(() => import('./routes/app/reports')) },
         { path: paths.account.path, lazy: page(() => import('./routes/app/account')) },
         { path: '*', lazy: page(() => import('./routes/app/not-found')) },
           ],

@@ -60,6 +60,8 @@ export const paths = {
   lapseWatch: { path: '/lapse-watch', title: 'Lapse watch', href: () => '/lapse-watch' },
   settings: { path: '/settings', title: 'Settings', href: () => '/settings' },
   imports: { path: '/imports', title: 'Import', href: () => '/imports' },
+  apiTokens: { path: '/api-tokens', title: 'API tokens', href: () => '/api-tokens' },
+  reports: { path: '/reports', title: 'Reports', href: () => '/reports' },
   account: { path: '/account', title: 'Your account', href: () => '/account' },
   coupon: {
     path: '/coupons/:id',

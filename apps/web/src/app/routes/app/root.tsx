@@ -30,8 +30,10 @@ export function navigationFor(me: Me): NavItem[] {
         { label: 'Shops', to: paths.shops.href() },
         { label: 'People', to: paths.people.href() },
         { label: 'Lapse watch', to: paths.lapseWatch.href() },
+        { label: 'Reports', to: paths.reports.href() },
         { label: 'Imports', to: paths.imports.href() },
         { label: 'Settings', to: paths.settings.href() },
+        { label: 'API tokens', to: paths.apiTokens.href() },
         { label: 'Audit trail', to: paths.audit.href() },
       ];
     case 'foreman':
