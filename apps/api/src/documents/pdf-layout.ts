@@ -46,8 +46,19 @@ export class FlowLayout {
       .fillColor(s.color ?? INK);
   }
 
+  private readonly lineHeights = new Map<string, number>();
+
   heightOf(text: string, s: TextStyle, width: number): number {
-    return this.style(s).heightOfString(text, { width, lineGap: 1 });
+    const doc = this.style(s);
+    // Text that fits on one line is one line high whatever it says: measured once per style, since
+    // laying out every cell of a long table again was most of the time a large report took.
+    if (text !== '' && !text.includes('\n') && doc.widthOfString(text) <= width) {
+      const key = `${s.size}|${s.bold ? 1 : 0}`;
+      let h = this.lineHeights.get(key);
+      if (h === undefined) this.lineHeights.set(key, (h = doc.heightOfString('Hg', { width, lineGap: 1 })));
+      return h;
+    }
+    return doc.heightOfString(text, { width, lineGap: 1 });
   }
 
   newPage(): void {
@@ -149,10 +160,12 @@ export class FlowLayout {
         });
       } else {
         row.cells.forEach((c, i) => {
-          this.style(cellStyle(c)).text(cellText(c), (xs[i] ?? 0) + pad, this.y + pad, {
-            width: (widths[i] ?? 0) - 2 * pad,
-            lineGap: 1,
-          });
+          const text = cellText(c);
+          const width = (widths[i] ?? 0) - 2 * pad;
+          const doc = this.style(cellStyle(c));
+          // A cell that fits on one line is written without the line wrapper (same place, less work).
+          const oneLine = text !== '' && !text.includes('\n') && doc.widthOfString(text) <= width;
+          doc.text(text, (xs[i] ?? 0) + pad, this.y + pad, { width, lineGap: 1, lineBreak: !oneLine });
         });
       }
       this.y += h;
