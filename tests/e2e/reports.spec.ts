@@ -20,7 +20,7 @@ describe('reports', () => {
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Reports' }).click();
     const form = page.getByRole('form', { name: 'Audit report' });
     const shop = form.getByLabel('Shop');
-    await shop.selectOption((await shop.locator('option', { hasText: 'Vessel Bay' }).getAttribute('value'))!);
+    await shop.selectOption((await shop.locator('option', { hasText: 'Vessel Bay' }).getAttribute('value')) ?? '');
     await form.getByRole('button', { name: 'Show the report' }).click();
     const figures = page.getByRole('region', { name: 'Report figures' });
     await figures.getByRole('heading', { name: /Vessel Bay/ }).waitFor({ timeout: 30_000 });
