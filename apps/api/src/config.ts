@@ -2,6 +2,7 @@
 // process.env; everything else receives a Config.
 import path from 'node:path';
 import { fileURLToPath } from 'node:url';
+import cron from 'node-cron';
 import { z } from 'zod';
 import { devSecrets } from './dev-secrets.js';
 
@@ -54,6 +55,11 @@ const envSchema = z
     TRUST_PROXY: z.preprocess(blankToUndefined, z.string().max(200).optional()),
     VERIFY_RATE_LIMIT: z.coerce.number().int().min(1).default(60),
     LAPSE_WATCH_ENABLED: bool.optional(),
+    /** How often the daily schedule looks for companies whose run time has come (node-cron; seconds allowed). */
+    LAPSE_WATCH_TICK: z
+      .string()
+      .default('* * * * *')
+      .refine((v) => cron.validate(v), 'Not a cron expression (five fields, or six with seconds first)'),
     /** Development only: show /api/dev/mail to anyone on this machine, signed in or not. */
     DEV_MAIL_OPEN: bool.default(false),
   })
@@ -137,6 +143,8 @@ export function loadConfig(env: Env = process.env) {
     verifyRateLimit: e.VERIFY_RATE_LIMIT,
     /** The daily lapse-watch schedule in this instance (off under test unless asked for). */
     lapseWatchEnabled: e.LAPSE_WATCH_ENABLED ?? e.NODE_ENV !== 'test',
+    /** The schedule's tick: every minute unless told otherwise (the two-instance test ticks every second). */
+    lapseWatchTick: e.LAPSE_WATCH_TICK,
   };
 }
 

@@ -334,6 +334,48 @@ describe('lapse watch with the mail catcher', () => {
     }
   });
 
+  it("runs a company's scheduled day once: an instance that found it due just before another ran it runs nothing", async () => {
+    const w = await lapseScenario(api);
+    clock.day(AS_OF);
+    const at = clock.now();
+    // The late instance has decided the day is due and stops just before taking the lock, until the
+    // early instance has run the day from start to end.
+    const ds = api.deps.dataSource;
+    let reachedLock!: () => void;
+    const atLock = new Promise<void>((r) => (reachedLock = r));
+    let openGate!: () => void;
+    const gate = new Promise<void>((r) => (openGate = r));
+    const lateDataSource = new Proxy(ds, {
+      get(target, prop) {
+        if (prop === 'createQueryRunner')
+          return () => {
+            const runner = target.createQueryRunner();
+            const connect = runner.connect.bind(runner);
+            runner.connect = async (): Promise<unknown> => {
+              reachedLock();
+              await gate;
+              return (await connect()) as unknown;
+            };
+            return runner;
+          };
+        const value: unknown = Reflect.get(target, prop, target);
+        return typeof value === 'function' ? (value as (...a: unknown[]) => unknown).bind(target) : value;
+      },
+    });
+    const late = runDueLapseWatch({ ...api.deps, dataSource: lateDataSource }, at, [w.org.id]);
+    await atLock;
+    const early = await runDueLapseWatch(api.deps, at, [w.org.id]);
+    expect(early.map((r) => [r.status, r.noticesCreated])).toEqual([['done', 4]]);
+    openGate();
+    expect(await late).toEqual([]);
+    const runs = await api.ds.query<{ status: string; trigger: string }[]>(
+      `SELECT status, trigger FROM lapse_watch_runs WHERE organization_id = $1`,
+      [w.org.id],
+    );
+    expect(runs).toEqual([{ status: 'done', trigger: 'schedule' }]);
+    for (const u of [w.foreman, w.foremanB, w.qa, w.qa2]) expect(await mailsTo(dir, u.email)).toHaveLength(1);
+  });
+
   it('previews what a run would send without sending or writing anything', async () => {
     const w = await lapseScenario(api);
     const qa = await signIn(api.app, w.qa.email, TEST_PASSWORD);

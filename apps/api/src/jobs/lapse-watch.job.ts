@@ -3,7 +3,9 @@
 //
 // A run holds a PostgreSQL session advisory lock on one dedicated connection while it writes, so of two
 // instances started together only one works; the other records a 'skipped' run for each company it was
-// asked to run (never shown to another company) and logs it. The lock goes with the connection, so a
+// asked to run (never shown to another company) and logs it. A scheduled run asks again, under the lock,
+// which of its companies still have no scheduled run today, so an instance that found a day due just
+// before another finished it does not run it a second time. The lock goes with the connection, so a
 // crashed run never leaves it held. Each company's run is dated today in the company's own time zone —
 // never another day (Preview looks at other days) — and stays 'sending' until the sender has settled
 // every delivery of its notices.
@@ -89,13 +91,33 @@ export async function runLapseWatch(deps: LapseWatchDeps, opts: LapseWatchOption
       return runs;
     }
     try {
-      return await runLocked(deps, { companies, trigger: opts.trigger, instance, startedAt, signal: opts.signal });
+      // The schedule decided what was due before it held the lock; another instance may have run those
+      // days since (it committed its run before letting go of the lock). Asked again under the lock, a
+      // company's scheduled day runs exactly once, however many instances tick at the same moment.
+      const todo =
+        opts.trigger === 'schedule'
+          ? await notYetScheduled(deps, companies)
+          : companies;
+      if (todo.length < companies.length)
+        deps.logger.info(
+          { trigger: opts.trigger, instance, alreadyRun: companies.length - todo.length },
+          'lapse watch: another instance has already run these companies today',
+        );
+      return await runLocked(deps, { companies: todo, trigger: opts.trigger, instance, startedAt, signal: opts.signal });
     } finally {
       await lockHolder.query(`SELECT pg_advisory_unlock(${RUN_LOCK})`);
     }
   } finally {
     await lockHolder.release();
   }
+}
+
+async function notYetScheduled(deps: LapseWatchDeps, companies: Awaited<ReturnType<typeof companyDays>>) {
+  const done = await repo.scheduledRunDays(
+    deps.dataSource.manager,
+    companies.map((c) => ({ organizationId: c.id, day: c.today })),
+  );
+  return companies.filter((c) => !done.has(c.id));
 }
 
 async function runLocked(
@@ -162,6 +184,7 @@ export async function runDueLapseWatch(
   });
   const done = await repo.scheduledRunDays(db, timeHas);
   const due = timeHas.filter((d) => !done.has(d.organizationId)).map((d) => d.organizationId);
+  deps.logger.debug({ due: due.length, alreadyRun: done.size }, 'lapse watch tick');
   return due.length > 0
     ? runLapseWatch(deps, { trigger: 'schedule', organizationIds: due, at: now, ...(signal ? { signal } : {}) })
     : [];
@@ -193,7 +216,7 @@ export async function runSenderTick(deps: LapseWatchDeps, opts: SendOptions = {}
 export const SENDER_CRON = '*/2 * * * *';
 
 /**
- * The schedule: node-cron every minute runs the daily tick above (one cron for every company's time keeps
+ * The schedule: node-cron every minute (LAPSE_WATCH_TICK) runs the daily tick above (one cron for every company's time keeps
  * a changed setting effective at once), and every two minutes the sender. Neither tick starts while its
  * previous one is still running.
  */
@@ -201,7 +224,7 @@ export function startLapseWatchSchedule(deps: LapseWatchDeps): { stop(): Promise
   let running: Promise<unknown> | null = null;
   let sending: Promise<unknown> | null = null;
   const stopping = new AbortController();
-  const daily = cron.schedule('* * * * *', () => {
+  const daily = cron.schedule(deps.config.lapseWatchTick, () => {
     if (running) return;
     running = runDueLapseWatch(deps, deps.clock.now(), undefined, stopping.signal)
       .catch((err: unknown) => deps.logger.error({ err }, 'lapse-watch schedule tick failed'))
