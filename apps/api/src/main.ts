@@ -10,6 +10,7 @@ import { createStorage } from './lib/storage.js';
 import { systemClock } from './lib/context.js';
 import { createApp } from './app.js';
 import { startLapseWatchSchedule } from './jobs/lapse-watch.job.js';
+import { startLinkMailSchedule } from './jobs/link-mail.job.js';
 
 const config = loadConfig();
 const logger = createLogger(config);
@@ -43,6 +44,7 @@ const app = createApp({
 const lapseWatch = config.lapseWatchEnabled
   ? startLapseWatchSchedule({ config, dataSource, mailer, logger, clock: systemClock })
   : null;
+const linkMails = startLinkMailSchedule({ config, dataSource, mailer, logger, clock: systemClock });
 
 const server = createServer(app);
 server.on('error', (err) => {
@@ -64,6 +66,7 @@ async function shutdown(signal: string) {
   server.closeIdleConnections();
   await new Promise<void>((resolve) => server.close(() => resolve()));
   await lapseWatch?.stop();
+  await linkMails.stop();
   mailer.close();
   storage.close();
   await dataSource.destroy();

@@ -1,7 +1,5 @@
 // Signing in, the caller's profile, and the single-use links that set a password (invitation and reset).
-import { createHash, randomBytes } from 'node:crypto';
-import { addDays, addHours } from 'date-fns';
-import type { EntityManager } from 'typeorm';
+import { addHours } from 'date-fns';
 import {
   setPasswordInput,
   type LoginInput,
@@ -22,18 +20,11 @@ import { companyTimeZone, zoneInForce } from '../settings/settings.repository.js
 import { ipKeyGenerator } from 'express-rate-limit';
 import * as repo from './auth.repository.js';
 import * as throttle from './throttle.repository.js';
-import type { TokenPurpose } from './auth-token.entity.js';
 import { hashPassword, verifyPassword } from './passwords.js';
-import { invitationMail, passwordResetMail } from './auth.mail.js';
+import { enqueueLinkMail, hashToken, sendDueLinkMails } from './link-mail.js';
 
 const WRONG_SIGN_IN = 'E-mail or password is wrong';
 const BAD_LINK = 'This link has expired or was already used';
-const validity: Record<TokenPurpose, (from: Date) => Date> = {
-  invitation: (from) => addDays(from, 7),
-  'password-reset': (from) => addHours(from, 1),
-};
-
-const hashToken = (token: string) => createHash('sha256').update(token).digest('hex');
 
 export async function getMe(deps: AppDeps, actor: Actor): Promise<Me> {
   const row = await repo.findMe(deps.dataSource.manager, actor.id);
@@ -164,55 +155,18 @@ export async function endOwnSessions(deps: AppDeps, actor: Actor, id: string | n
   });
 }
 
-/**
- * Creates a fresh single-use link for the user (voiding older ones of the same purpose) and e-mails it,
- * inside the caller's transaction: if the mail cannot be sent, nothing of the link is kept.
- */
-export async function sendLink(
-  deps: AppDeps,
-  db: EntityManager,
-  user: { id: string; email: string; name: string; organizationName: string },
-  purpose: TokenPurpose,
-): Promise<void> {
-  const now = deps.clock.now();
-  const token = randomBytes(32).toString('base64url');
-  const expiresAt = validity[purpose](now);
-  await repo.voidTokens(db, user.id, now, purpose);
-  await repo.insertToken(db, {
-    userId: user.id,
-    tokenHash: hashToken(token),
-    purpose,
-    expiresAt,
-    createdAt: now,
-  });
-  const link = `${deps.config.appUrl}/set-password?token=${encodeURIComponent(token)}`;
-  const mail = { to: user.email, name: user.name, organizationName: user.organizationName, link, expiresAt };
-  try {
-    await deps.mailer.send(purpose === 'invitation' ? invitationMail(mail) : passwordResetMail(mail));
-  } catch (err) {
-    deps.logger.error({ err, to: user.email }, 'could not send e-mail');
-    throw new AppError('unavailable', 'The e-mail could not be sent; nothing was saved. Try again shortly.');
-  }
-}
-
 /** Always succeeds from the caller's point of view, so it does not reveal which e-mails have accounts. */
 export async function requestPasswordReset(deps: AppDeps, email: string): Promise<void> {
   const user = await repo.findSignIn(deps.dataSource.manager, email);
   if (!user || !user.active) return;
-  try {
-    await deps.dataSource.transaction(async (db) => {
-      const me = await repo.findMe(db, user.id);
-      if (!me) return;
-      await sendLink(
-        deps,
-        db,
-        { id: me.id, email: me.email, name: me.name, organizationName: me.organization.name },
-        'password-reset',
-      );
-    });
-  } catch (err) {
-    deps.logger.error({ err }, 'password reset e-mail failed');
-  }
+  // Through the link-mail outbox: a relay that does not answer now is retried by the schedule.
+  await enqueueLinkMail(deps.dataSource.manager, {
+    organizationId: user.organizationId,
+    userId: user.id,
+    purpose: 'password-reset',
+    at: deps.clock.now(),
+  });
+  await sendDueLinkMails(deps, user.organizationId);
 }
 
 function parseToken(token: string): string {

@@ -87,13 +87,6 @@ export async function emailIsPerson(db: EntityManager, organizationId: string, e
   return rows.length > 0;
 }
 
-export async function organizationName(db: EntityManager, organizationId: string): Promise<string> {
-  const rows: { name: string }[] = await db.query(`SELECT name FROM organizations WHERE id = $1`, [
-    organizationId,
-  ]);
-  return rows[0]?.name ?? '';
-}
-
 export interface WelderForAccount {
   id: string;
   name: string;

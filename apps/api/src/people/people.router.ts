@@ -4,6 +4,7 @@ import { personInput, personUpdateInput } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import { pathParam } from '../lib/params.js';
 import { actorOf, requireRole } from '../lib/auth.js';
+import { sendLinkMailsAfter } from '../auth/link-mail.js';
 import * as people from './people.service.js';
 
 export function peopleRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
@@ -19,7 +20,9 @@ export function peopleRouter(deps: AppDeps, requireAuth: RequestHandler): Router
   });
 
   router.post('/', async (req, res) => {
-    res.status(201).json(await people.invitePerson(deps, actorOf(req), personInput.parse(req.body)));
+    const person = await people.invitePerson(deps, actorOf(req), personInput.parse(req.body));
+    sendLinkMailsAfter(res, deps, actorOf(req).organizationId);
+    res.status(201).json(person);
   });
 
   router.patch('/:id', async (req, res) => {
@@ -30,6 +33,7 @@ export function peopleRouter(deps: AppDeps, requireAuth: RequestHandler): Router
 
   router.post('/:id/invitation', async (req, res) => {
     await people.resendInvitation(deps, actorOf(req), pathParam(req, 'id'));
+    sendLinkMailsAfter(res, deps, actorOf(req).organizationId);
     res.status(202).json({ status: 'sent' });
   });
 

@@ -1,6 +1,6 @@
 // People (sign-ins) of a company: the QA manager invites foremen, welders and other QA managers by
-// e-mail, assigns foremen to shops and deactivates accounts. Every change is audited; an invitation
-// that cannot be e-mailed is not saved.
+// e-mail, assigns foremen to shops and deactivates accounts. Every change is audited; an invitation's
+// e-mail goes through the link-mail outbox (auth/link-mail.ts) after the response, never inside it.
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import type { Person, personInput, PersonUpdateInput } from '@beadroll/rules';
@@ -9,14 +9,14 @@ import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { diff, recordAudit } from '../lib/audit.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
-import { sendLink } from '../auth/auth.service.js';
+import { enqueueLinkMail } from '../auth/link-mail.js';
 import { companyShops } from '../shops/shops.service.js';
 import * as repo from './people.repository.js';
 
 type PersonInput = z.output<typeof personInput>;
 
 // Only the company's own people are checked: whether an address signs in for another company is never
-// told to an inviter (issue 11, finding 7). Such an invitation is saved and e-mailed like any other; the
+// told to an inviter (issue 11, finding 7). Such an invitation is saved and queued like any other; the
 // address's owner is refused when using the link (auth.service setPassword), so that account is untouched.
 const emailTaken = (email: string) =>
   AppError.validation({ email: `${email} is already a person of your company` });
@@ -73,13 +73,7 @@ export async function invitePerson(deps: AppDeps, actor: Actor, input: PersonInp
         before: null,
         after: { email: input.email, name: input.name, role: input.role, shopIds, welderId },
       });
-      const organizationName = await repo.organizationName(db, actor.organizationId);
-      await sendLink(
-        deps,
-        db,
-        { id: userId, email: input.email, name: input.name, organizationName },
-        'invitation',
-      );
+      await enqueueLinkMail(db, { organizationId: actor.organizationId, userId, purpose: 'invitation', at: now });
       return userId;
     })
     .catch((err: unknown) => {
@@ -149,12 +143,7 @@ export async function resendInvitation(deps: AppDeps, actor: Actor, id: string):
       before: null,
       after: null,
     });
-    await sendLink(
-      deps,
-      db,
-      { id, email: current.email, name: current.name, organizationName: current.organizationName },
-      'invitation',
-    );
+    await enqueueLinkMail(db, { organizationId: actor.organizationId, userId: id, purpose: 'invitation', at: now });
   });
 }
 

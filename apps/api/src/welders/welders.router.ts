@@ -5,6 +5,7 @@ import type { AppDeps } from '../lib/context.js';
 import { pathParam } from '../lib/params.js';
 import { actorOf, requireRole } from '../lib/auth.js';
 import { createWelderAccount } from '../people/people.service.js';
+import { sendLinkMailsAfter } from '../auth/link-mail.js';
 import * as welders from './welders.service.js';
 
 export function weldersRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
@@ -31,7 +32,9 @@ export function weldersRouter(deps: AppDeps, requireAuth: RequestHandler): Route
 
   // A welder sign-in belongs to the people feature; this route composes the two.
   router.post('/:id/account', requireRole('qa_manager'), async (req, res) => {
-    res.status(201).json(await createWelderAccount(deps, actorOf(req), pathParam(req, 'id')));
+    const person = await createWelderAccount(deps, actorOf(req), pathParam(req, 'id'));
+    sendLinkMailsAfter(res, deps, actorOf(req).organizationId);
+    res.status(201).json(person);
   });
 
   return router;
