@@ -1,6 +1,8 @@
 // Watches the bytes the object store takes from each streamed upload, by key (the app and the test
 // share the Storage object of startTestApi), so a test can act while a file is still on its way.
 import { Transform } from 'node:stream';
+import { ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
+import type { Config } from '../../apps/api/src/config.js';
 import type { Storage } from '../../apps/api/src/lib/storage.js';
 
 export interface Taken {
@@ -48,4 +50,22 @@ export async function waitForTaken(
     if (Date.now() > deadline) throw new Error(`no upload under ${prefix} passed ${bytes} bytes`);
     await new Promise((r) => setTimeout(r, 20));
   }
+}
+
+/** Lists the keys in the test API's bucket under a prefix (what a refused file may have left). */
+export function bucketKeys(config: Config): { under(prefix: string): Promise<string[]>; close(): void } {
+  const c = config.s3;
+  const s3 = new S3Client({
+    endpoint: c.endpoint,
+    region: c.region,
+    forcePathStyle: c.forcePathStyle,
+    credentials: { accessKeyId: c.accessKeyId, secretAccessKey: c.secretAccessKey },
+  });
+  return {
+    async under(prefix) {
+      const out = await s3.send(new ListObjectsV2Command({ Bucket: c.bucket, Prefix: prefix }));
+      return (out.Contents ?? []).flatMap((o) => (o.Key ? [o.Key] : []));
+    },
+    close: () => s3.destroy(),
+  };
 }

@@ -8,22 +8,30 @@ import { AppError } from '../lib/errors.js';
 import { pathParam } from '../lib/params.js';
 import { refuseApiTokens } from '../api-tokens/bearer.js';
 import { MAX_IMPORT_BYTES } from './spreadsheet.js';
+import { streamingEngine } from '../lib/stream-to-store.js';
 import * as imports from './imports.service.js';
 
 export function importsRouter(deps: AppDeps, requireAuth: RequestHandler): Router {
   const router = Router();
   router.use(requireAuth, refuseApiTokens, requireRole('qa_manager'));
 
+  // The file streams to the object store as it arrives (imports.service receiveImportFile), never held
+  // whole in memory; multer parses the multipart body and enforces the size cap while the bytes flow.
+  const engine = streamingEngine(
+    deps,
+    (req, file) => imports.receiveImportFile(deps, actorOf(req), file),
+    (stored) => stored.objectKey,
+  );
   const parse = multer({
-    storage: multer.memoryStorage(),
+    storage: engine,
     limits: { fileSize: MAX_IMPORT_BYTES, files: 1, fields: 5 },
     defParamCharset: 'utf8',
   }).single('file');
   const receive: RequestHandler = (req, res, next) => {
     parse(req, res, (err: unknown) => {
       if (!err) return next();
-      if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE')
-        return next(new AppError('payload_too_large', 'The file is larger than 20 MB; split it'));
+      if (err instanceof AppError) return next(err);
+      if (err instanceof multer.MulterError && err.code === 'LIMIT_FILE_SIZE') return next(imports.importTooLarge());
       next(AppError.validation({ file: 'Send one .csv or .xlsx file in the field "file"' }, 'The upload is not valid'));
     });
   };
@@ -33,8 +41,14 @@ export function importsRouter(deps: AppDeps, requireAuth: RequestHandler): Route
   });
 
   router.post('/', receive, async (req, res) => {
-    const { kind } = importUploadFields.parse(req.body ?? {});
-    res.status(201).json(await imports.uploadImport(deps, actorOf(req), kind, req.file));
+    const stored = req.file as (Express.Multer.File & imports.StoredImportFile) | undefined;
+    const fields = importUploadFields.safeParse(req.body ?? {});
+    if (!fields.success) {
+      // The file is already in the store: a refused request keeps nothing.
+      if (stored) await deps.storage.delete(stored.objectKey);
+      throw fields.error;
+    }
+    res.status(201).json(await imports.uploadImport(deps, actorOf(req), fields.data.kind, stored));
   });
 
   router.get('/:id', async (req, res) => {

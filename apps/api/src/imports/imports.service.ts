@@ -3,7 +3,8 @@
 // changed, nothing written), then commit — all or nothing in one transaction, audited as one import,
 // with progress and a cancel. The commit plans again inside its transaction, so what it writes is what
 // the data says at that moment; re-importing the same file finds every row unchanged.
-import { createHash, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
+import type { Readable } from 'node:stream';
 import type { Import, ImportCheckInput, ImportKind } from '@beadroll/rules';
 import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
@@ -11,12 +12,15 @@ import { recordAudit } from '../lib/audit.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { suggestMapping } from './cells.js';
 import type { KindDef, PlanContext } from './import-plan.js';
-import { readSpreadsheet } from './spreadsheet.js';
+import { readSpreadsheet, MAX_IMPORT_BYTES, SNIFF_BYTES, sniff, type FileType } from './spreadsheet.js';
+import { readHead, streamToStore } from '../lib/stream-to-store.js';
 import { weldersImport } from './welders.import.js';
 import { continuityImport } from './continuity.import.js';
 import { qualificationsImport } from './qualifications.import.js';
 import * as repo from './imports.repository.js';
 import { companyToday } from '../settings/settings.repository.js';
+
+export const importTooLarge = () => new AppError('payload_too_large', 'The file is larger than 20 MB; split it');
 
 const kinds: Partial<Record<ImportKind, KindDef>> = { welders: weldersImport, qualifications: qualificationsImport, continuity: continuityImport };
 
@@ -63,42 +67,89 @@ export async function listImports(deps: AppDeps, actor: Actor) {
   return { items: rows.map((r) => { const { report: _r, fields: _f, headers: _h, ...rest } = view(r); return rest; }) };
 }
 
+const contentTypes: Record<FileType, string> = {
+  csv: 'text/csv',
+  xlsx: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
+};
+
+/** An import file in the object store (receiveImportFile), not yet described by a row. */
+export interface StoredImportFile {
+  id: string;
+  objectKey: string;
+  type: FileType;
+  fileName: string;
+  size: number;
+  sha256: string;
+}
+
+/**
+ * Streams an arriving spreadsheet into the object store as it comes (never held whole in memory while it
+ * arrives): what it is is told from its first 64 KB (anything else is refused before a byte is stored)
+ * and the 20 MB cap is enforced while the bytes flow; a refused, oversize or broken-off file leaves
+ * nothing in the store.
+ */
+export async function receiveImportFile(
+  deps: AppDeps,
+  actor: Actor,
+  file: { stream: Readable; originalname: string },
+): Promise<StoredImportFile> {
+  const arriving = await readHead(file.stream, SNIFF_BYTES);
+  let type: FileType;
+  try {
+    type = sniff(arriving.head);
+  } catch (err) {
+    file.stream.resume();
+    throw err;
+  }
+  const id = randomUUID();
+  const objectKey = `imports/${actor.organizationId}/${id}.${type}`;
+  const { size, sha256 } = await streamToStore(deps, {
+    stream: file.stream,
+    file: arriving,
+    key: objectKey,
+    contentType: contentTypes[type],
+    maxBytes: MAX_IMPORT_BYTES,
+    tooLarge: importTooLarge,
+  });
+  return { id, objectKey, type, fileName: file.originalname, size, sha256 };
+}
+
+/** Reads the stored file, describes it by a row; the object is deleted when either cannot be done. */
 export async function uploadImport(
   deps: AppDeps,
   actor: Actor,
   kind: ImportKind,
-  file: { buffer: Buffer; originalname: string } | undefined,
+  file: StoredImportFile | undefined,
 ): Promise<Import> {
   if (!file) throw AppError.validation({ file: 'Choose a .csv or .xlsx file' });
-  const def = kindDef(kind);
-  const { type, sheet } = await readSpreadsheet(file.buffer);
-  const id = randomUUID();
-  const objectKey = `imports/${actor.organizationId}/${id}.${type}`;
-  await deps.storage.put(
-    objectKey,
-    file.buffer,
-    type === 'csv' ? 'text/csv' : 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
-  );
-  const saved = await repo.savedMapping(deps.dataSource.manager, actor.organizationId, kind);
-  await repo.insertImport(deps.dataSource.manager, {
-    id,
-    organizationId: actor.organizationId,
-    kind,
-    fileName: file.originalname.slice(0, 200) || `import.${type}`,
-    fileType: type,
-    sha256: createHash('sha256').update(file.buffer).digest('hex'),
-    sizeBytes: file.buffer.byteLength,
-    objectKey,
-    options: {
-      headers: sheet.headers,
-      mapping: suggestMapping(def.fields, sheet.headers, saved?.mapping ?? null),
-      dateFormat: saved?.dateFormat ?? null,
-    },
-    totalRows: sheet.rows.length,
-    createdBy: actor.id,
-    at: deps.clock.now(),
-  });
-  return getImport(deps, actor, id);
+  try {
+    const def = kindDef(kind);
+    const { body } = await deps.storage.get(file.objectKey);
+    const { sheet } = await readSpreadsheet(body);
+    const saved = await repo.savedMapping(deps.dataSource.manager, actor.organizationId, kind);
+    await repo.insertImport(deps.dataSource.manager, {
+      id: file.id,
+      organizationId: actor.organizationId,
+      kind,
+      fileName: file.fileName.slice(0, 200) || `import.${file.type}`,
+      fileType: file.type,
+      sha256: file.sha256,
+      sizeBytes: file.size,
+      objectKey: file.objectKey,
+      options: {
+        headers: sheet.headers,
+        mapping: suggestMapping(def.fields, sheet.headers, saved?.mapping ?? null),
+        dateFormat: saved?.dateFormat ?? null,
+      },
+      totalRows: sheet.rows.length,
+      createdBy: actor.id,
+      at: deps.clock.now(),
+    });
+  } catch (err) {
+    await deps.storage.delete(file.objectKey).catch((e: unknown) => deps.logger.error({ err: e }, 'could not delete a refused import file'));
+    throw err;
+  }
+  return getImport(deps, actor, file.id);
 }
 
 async function readFile(deps: AppDeps, row: repo.ImportRow) {

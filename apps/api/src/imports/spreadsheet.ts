@@ -7,6 +7,8 @@ import { AppError } from '../lib/errors.js';
 
 export const MAX_IMPORT_BYTES = 20 * 1024 * 1024;
 export const MAX_IMPORT_ROWS = 200_000;
+/** How much of the start of a file `sniff` reads to tell what it is. */
+export const SNIFF_BYTES = 65536;
 
 export interface SheetRow {
   /** The row number a spreadsheet program shows (the header is row 1). */
@@ -33,7 +35,7 @@ export function sniff(bytes: Buffer): FileType {
     throw notSpreadsheet('This is an old-style .xls workbook; save it as .xlsx or .csv and upload that');
   if (bytes.subarray(0, 5).toString('latin1') === '%PDF-') throw notSpreadsheet('This is a PDF, not a spreadsheet');
   // Text: no NUL bytes and no other control characters than tab, CR, LF in the first 64 KB.
-  const head = bytes.subarray(0, 65536);
+  const head = bytes.subarray(0, SNIFF_BYTES);
   for (const b of head) if (b < 0x09 || (b > 0x0d && b < 0x20 && b !== 0x1b) || b === 0x7f)
     throw notSpreadsheet('The file holds binary data; upload a .csv or .xlsx file');
   return 'csv';

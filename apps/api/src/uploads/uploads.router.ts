@@ -5,6 +5,7 @@ import type { AppDeps } from '../lib/context.js';
 import { AppError } from '../lib/errors.js';
 import { pathParam } from '../lib/params.js';
 import { actorOf, requireRole } from '../lib/auth.js';
+import { streamingEngine } from '../lib/stream-to-store.js';
 import * as uploads from './uploads.service.js';
 
 /** RFC 5987 encoding of a file name for Content-Disposition's filename*. */
@@ -17,22 +18,11 @@ export function uploadsRouter(deps: AppDeps, requireAuth: RequestHandler): Route
 
   // Files stream to the object store as they arrive (uploads.service storeFile), never held whole in
   // memory; multer parses the multipart body and enforces the size cap while the bytes flow.
-  const engine: multer.StorageEngine = {
-    _handleFile(req, file, cb) {
-      uploads.storeFile(deps, actorOf(req), file).then(
-        (stored) => cb(null, stored),
-        (err: unknown) => cb(err),
-      );
-    },
-    _removeFile(_req, file, cb) {
-      const { storageKey } = file as Partial<uploads.StoredFile>;
-      if (!storageKey) return cb(null);
-      deps.storage.delete(storageKey).then(
-        () => cb(null),
-        (err: unknown) => cb(err as Error),
-      );
-    },
-  };
+  const engine = streamingEngine(
+    deps,
+    (req, file) => uploads.storeFile(deps, actorOf(req), file),
+    (stored) => stored.storageKey,
+  );
   const parse = multer({
     storage: engine,
     limits: { fileSize: uploads.MAX_UPLOAD_BYTES, files: 1, fields: 5 },

@@ -1,10 +1,9 @@
 // Files attached to the record (WPS documents, specimen photos, examination reports): checked by their
 // bytes (file-type), stored in the object store under a random key, described by a row. Nothing is left
 // behind when a file is refused or the row cannot be written.
-import { createHash, randomUUID } from 'node:crypto';
+import { randomUUID } from 'node:crypto';
 import path from 'node:path';
-import { once } from 'node:events';
-import { PassThrough, Readable } from 'node:stream';
+import { Readable } from 'node:stream';
 import { fileTypeFromBuffer } from 'file-type';
 import type { EntityManager } from 'typeorm';
 import { uploadKinds, type Upload } from '@beadroll/rules';
@@ -14,6 +13,7 @@ import { AppError } from '../lib/errors.js';
 import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
 import { clipText } from '../lib/text.js';
+import { readHead, storeDown, streamToStore } from '../lib/stream-to-store.js';
 import { imageCutter, PdfScanner } from './content-checks.js';
 import * as repo from './uploads.repository.js';
 
@@ -68,8 +68,6 @@ const notAllowed = (what: string) =>
     'This file cannot be attached',
   );
 const tooLarge = () => new AppError('payload_too_large', 'The file is larger than 15 MB; attach a smaller one');
-const storeDown = () =>
-  new AppError('unavailable', 'The file store is not answering; nothing was saved. Try again shortly.');
 
 /** Enough of the start of a file for its type to be recognised (file-type reads at most this much). */
 const HEAD_BYTES = 4100;
@@ -89,24 +87,8 @@ export async function storeFile(
   maxBytes = MAX_UPLOAD_BYTES,
 ): Promise<StoredFile> {
   const { stream } = file;
-  let truncated = false;
-  stream.once('limit', () => {
-    truncated = true;
-  });
-  const chunks = stream[Symbol.asyncIterator]() as AsyncIterator<Buffer>;
-  const headParts: Buffer[] = [];
-  let headLength = 0;
-  let ended = false;
-  while (headLength < HEAD_BYTES) {
-    const next = await chunks.next();
-    if (next.done) {
-      ended = true;
-      break;
-    }
-    headParts.push(next.value);
-    headLength += next.value.length;
-  }
-  const head = Buffer.concat(headParts);
+  const arriving = await readHead(stream, HEAD_BYTES);
+  const { head } = arriving;
   const detected = head.length ? await fileTypeFromBuffer(head) : undefined;
   if (!detected || !ALLOWED_TYPES.has(detected.mime)) {
     stream.resume();
@@ -116,58 +98,32 @@ export async function storeFile(
   const cutter = imageCutter(contentType);
   const pdf = contentType === 'application/pdf' ? new PdfScanner() : null;
   const storageKey = `uploads/${actor.organizationId}/${randomUUID()}`;
-  const body = new PassThrough();
-  const put = deps.storage.putStream(storageKey, body, contentType);
-  const failure = put.done.then(
-    () => null,
-    (err: unknown) => err ?? new Error('object store failed'),
-  );
-  const hash = createHash('sha256');
-  let size = 0;
-  const forward = async (chunk: Buffer) => {
-    if (pdf) await pdf.push(chunk);
-    const kept = cutter ? cutter.keep(chunk) : chunk;
-    if (kept.length === 0) return;
-    hash.update(kept);
-    size += kept.length;
-    if (!body.write(kept)) await Promise.race([once(body, 'drain'), failure]);
-  };
-  try {
-    await forward(head);
-    if (!ended)
-      for (let next = await chunks.next(); !next.done; next = await chunks.next()) {
-        if (truncated) break;
-        await forward(next.value);
-      }
-    if (truncated || size > maxBytes) throw tooLarge();
-    const active = pdf ? await pdf.end() : null;
-    if (active)
-      throw AppError.validation(
-        { file: `This PDF acts when opened (${active}); attach a plain PDF, for example printed to PDF again` },
-        'This file cannot be attached',
-      );
-    body.end();
-    const storeError = await failure;
-    if (storeError) {
-      deps.logger.error({ err: storeError, storageKey }, 'could not store an upload');
-      throw storeDown();
-    }
-  } catch (err) {
-    stream.resume();
-    body.destroy();
-    await put.abort();
-    if (err instanceof AppError) throw err;
-    const storeError = await Promise.race([failure, Promise.resolve(null)]);
-    if (storeError) throw storeDown();
-    // The request ended before the file did (the client went away, or the multipart body broke off).
-    throw AppError.validation({ file: 'The upload arrived incomplete or malformed; send it again' }, 'The upload is not valid');
-  }
+  const { size, sha256 } = await streamToStore(deps, {
+    stream,
+    file: arriving,
+    key: storageKey,
+    contentType,
+    maxBytes,
+    tooLarge,
+    async filter(chunk) {
+      if (pdf) await pdf.push(chunk);
+      return cutter ? cutter.keep(chunk) : chunk;
+    },
+    async beforeEnd() {
+      const active = pdf ? await pdf.end() : null;
+      if (active)
+        throw AppError.validation(
+          { file: `This PDF acts when opened (${active}); attach a plain PDF, for example printed to PDF again` },
+          'This file cannot be attached',
+        );
+    },
+  });
   return {
     storageKey,
     fileName: cleanFileName(file.originalname),
     contentType,
     size,
-    sha256: hash.digest('hex'),
+    sha256,
   };
 }
 
