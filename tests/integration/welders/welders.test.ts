@@ -10,8 +10,11 @@ import {
   makeWorld,
   TEST_PASSWORD,
   uniqueEmail,
+  type WelderRow,
 } from '../../support/factories.js';
 import { QueryLog } from '../../support/api-query-log.js';
+import { addMonths } from '@beadroll/rules';
+import { makeQualification } from '../lapse-watch/lapse-factories.js';
 import { linkToken, waitForMail } from '../../support/mail.js';
 
 const stamps = (res: { body: unknown }) => bodyOf(welderPageSchema, res).items.map((w) => w.stamp);
@@ -23,6 +26,35 @@ describe('GET /api/welders', () => {
     api = await startTestApi({ dataSourceOptions: { logger: log } });
   });
   afterAll(() => api.close());
+
+  it('sorts by the soonest lapse still ahead, lapsed ones never first, welders with none ahead last (issue 10 item 6)', async () => {
+    const world = await makeWorld(api.ds);
+    const today = new Date().toISOString().slice(0, 10);
+    const day = (n: number) => new Date(Date.parse(`${today}T00:00:00Z`) + n * 86_400_000).toISOString().slice(0, 10);
+    const lapsedAndLater = await makeWelder(api.ds, world.org, world.shopA, { stamp: 'S-01' });
+    const soonAhead = await makeWelder(api.ds, world.org, world.shopA, { stamp: 'S-02' });
+    const onlyLapsed = await makeWelder(api.ds, world.org, world.shopA, { stamp: 'S-03' });
+    const q = (w: WelderRow, process: string, lapsesOn: string) =>
+      makeQualification(api.ds, world.org, world.qa, w, { process, lapsesOn, lastEvidence: addMonths(lapsesOn, -6) });
+    await q(lapsedAndLater, 'SMAW', day(-10));
+    await q(lapsedAndLater, 'GTAW', day(20));
+    await q(soonAhead, 'SMAW', day(13));
+    await q(onlyLapsed, 'SMAW', day(-40));
+    // The maintained soonest lapse over the qualifications in force, as the continuity refresh keeps it.
+    await api.ds.query(
+      `UPDATE welders w SET soonest_lapses_on = (SELECT min(lapses_on) FROM continuity_states cs WHERE cs.welder_id = w.id)
+        WHERE organization_id = $1`,
+      [world.org.id],
+    );
+    const qa = await signIn(api.app, world.qa.email, TEST_PASSWORD);
+    const asc = await qa.get('/api/welders?q=S-0&sort=lapsesOn&dir=asc').expect(200);
+    expect(stamps(asc)).toEqual(['S-02', 'S-01', 'S-03']);
+    const item = bodyOf(welderPageSchema, asc).items[1]!;
+    expect(item.qualifications!.map((x) => [x.process, x.state]).sort()).toEqual([
+      ['GTAW', 'lapsing'],
+      ['SMAW', 'lapsed'],
+    ]);
+  });
 
   it('pages, sorts and counts in one query, whatever the page size', async () => {
     const world = await makeWorld(api.ds);

@@ -46,9 +46,12 @@ const sortColumn: Record<ListQuery['sort'], string> = {
   name: 'w.name',
   homeShop: 's.name',
   createdAt: 'w.created_at',
-  // Maintained with the continuity states (migration 1764979200000): soonest lapse among the welder's
-  // qualifications in force — revoked ones cannot lapse.
-  lapsesOn: 'w.soonest_lapses_on',
+  // The soonest lapse still ahead (today or later): lapsed ones are shown apart, never first (issue 10
+  // item 6). welders.soonest_lapses_on (maintained with the continuity states, migration 1764979200000) is
+  // the soonest over every qualification in force; only a welder whose soonest is already past needs his
+  // qualifications looked at for the soonest one ahead.
+  lapsesOn: `CASE WHEN w.soonest_lapses_on >= $2::date THEN w.soonest_lapses_on
+    ELSE (SELECT min(${qLapses}) ${qualificationsOf} AND ${qLapses} >= $2::date) END`,
 };
 
 /** The welders the actor may read (lib/scope's rule, in SQL): conditions and their parameters. */

@@ -14,13 +14,13 @@ const q = (over: Partial<QualificationState>): QualificationState => ({
 
 describe('qualification status chips', () => {
   it('say the status in words with the days left visible only while lapsing', () => {
-    expect(chipLabel(q({}))).toBe('SMAW current');
-    expect(chipLabel(q({ state: 'lapsing', daysLeft: 12 }))).toBe('SMAW lapsing · 12 days left');
-    expect(chipLabel(q({ state: 'lapsing', daysLeft: 1 }))).toBe('SMAW lapsing · 1 day left');
-    expect(chipLabel(q({ state: 'lapsed', daysLeft: -3 }))).toBe('SMAW lapsed');
+    expect(chipLabel(q({}))).toBe('SMAW ASME IX current');
+    expect(chipLabel(q({ state: 'lapsing', daysLeft: 12 }))).toBe('SMAW ASME IX lapsing · 12 days left');
+    expect(chipLabel(q({ state: 'lapsing', daysLeft: 1 }))).toBe('SMAW ASME IX lapsing · 1 day left');
+    expect(chipLabel(q({ state: 'lapsed', daysLeft: -3, code: 'aws-d1.1' }))).toBe('SMAW AWS D1.1 lapsed');
   });
 
-  it('show one chip per process, the most urgent one, with colour, icon and the days in the title', () => {
+  it('show one chip per process and code, the most urgent one, with colour, icon and the days in the title', () => {
     render(
       <QualificationChips
         qualifications={[
@@ -30,17 +30,24 @@ describe('qualification status chips', () => {
         ]}
       />,
     );
-    const lapsing = screen.getByText('GTAW lapsing · 9 days left');
+    const lapsing = screen.getByText('GTAW ASME IX lapsing · 9 days left');
     expect(lapsing.closest('[data-tone]')?.getAttribute('data-tone')).toBe('warn');
     expect(lapsing.closest('[data-tone]')?.querySelector('svg')).not.toBeNull();
-    expect(lapsing.closest('[title]')?.getAttribute('title')).toBe('GTAW (asme-ix): lapses on 2026-12-11, 9 days left');
-    expect(screen.getByText('SMAW revoked').closest('[data-tone]')?.getAttribute('data-tone')).toBe('bad');
-    expect(screen.queryByText('GTAW current')).toBeNull();
+    expect(lapsing.closest('[title]')?.getAttribute('title')).toBe('GTAW to ASME IX: lapses on 2026-12-11, 9 days left');
+    expect(screen.getByText('SMAW ASME IX revoked').closest('[data-tone]')?.getAttribute('data-tone')).toBe('bad');
+    expect(screen.queryByText('GTAW ASME IX current')).toBeNull();
   });
 
-  it('find the soonest lapse, leaving revoked ones out', () => {
+  it('find the soonest lapse still ahead, leaving revoked and lapsed ones out', () => {
     const soon = q({ process: 'GMAW', lapsesOn: '2026-12-20' });
-    expect(soonestLapse([q({}), soon, q({ state: 'revoked', lapsesOn: '2026-01-01' })])).toBe(soon);
+    expect(
+      soonestLapse([
+        q({}),
+        soon,
+        q({ state: 'revoked', lapsesOn: '2026-01-01', daysLeft: -300 }),
+        q({ state: 'lapsed', lapsesOn: '2026-11-01', daysLeft: -30 }),
+      ]),
+    ).toBe(soon);
     expect(soonestLapse([])).toBeNull();
   });
 });

@@ -5,7 +5,7 @@ import { createColumnHelper, getCoreRowModel, useReactTable, type OnChangeFn, ty
 import { useMemo, type ReactNode } from 'react';
 import { Link } from 'react-router-dom';
 import { DataTable } from '@/components/ui/data-table';
-import { QualificationChips, soonestLapse } from '@/components/ui/qualification-chip';
+import { codeName, lapsedCount, QualificationChips, soonestLapse } from '@/components/ui/qualification-chip';
 import { StatusChip } from '@/components/ui/status-chip';
 import { paths } from '@/config/paths';
 
@@ -70,16 +70,30 @@ export function WeldersTable({ welders, sorting, onSortingChange, onEdit, refres
         id: 'lapsesOn',
         header: 'Soonest lapse',
         cell: (info) => {
-          const soonest = soonestLapse(info.row.original.qualifications ?? []);
-          return soonest ? (
-            <span className="whitespace-nowrap tabular-nums">
-              {soonest.lapsesOn} <span className="text-xs text-stone-500">({soonest.process})</span>
+          const qualifications = info.row.original.qualifications ?? [];
+          const soonest = soonestLapse(qualifications);
+          const lapsed = lapsedCount(qualifications);
+          return (
+            <span className="flex flex-col gap-0.5">
+              {soonest ? (
+                <span className="whitespace-nowrap tabular-nums">
+                  {soonest.lapsesOn}{' '}
+                  <span className="text-xs text-stone-500">
+                    ({soonest.process} {codeName(soonest.code)})
+                  </span>
+                </span>
+              ) : (
+                <span className="text-stone-400">none ahead</span>
+              )}
+              {lapsed > 0 && (
+                <span className="whitespace-nowrap text-xs font-semibold text-red-700" data-lapsed-count={lapsed}>
+                  and {lapsed} lapsed
+                </span>
+              )}
             </span>
-          ) : (
-            <span className="text-stone-400">none</span>
           );
         },
-        meta: { className: 'w-36' },
+        meta: { className: 'w-44' },
       }),
       ...(onEdit
         ? [
