@@ -36,6 +36,7 @@ import { importsRouter } from './imports/imports.router.js';
 import { paperRecordsRouter } from './imports/paper-records.router.js';
 import { reportsRouter } from './reports/reports.router.js';
 import { welderQualifiedOnRouter } from './qualified-on/qualified-on.router.js';
+import { crewFinderRouter } from './crew-finder/crew-finder.router.js';
 
 export interface CreateAppOptions extends AppDeps {
   /** Folder of the built web app to serve with SPA fallback; omitted in API-only tests. */
@@ -123,6 +124,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/overview', overviewRouter(deps, auth.requireAuth));
   api.use('/api-tokens', apiTokensRouter(deps, auth.requireAuth));
   api.use('/imports', importsRouter(deps, auth.requireAuth));
+  api.use('/crew-finder', crewFinderRouter(deps, auth.requireAuth));
   api.use('/paper-records', paperRecordsRouter(deps, auth.requireAuth));
   api.use('/reports', reportsRouter(deps, auth.requireAuth));
   api.use(openApiRouter());

@@ -41,6 +41,8 @@ import {
   procedureSchema,
   procedureUpdateInput,
   qualificationListQuery,
+  crewFinderAnswerSchema,
+  crewFinderQueryFields,
   qualifiedOnAnswerSchema,
   qualifiedOnQueryFields,
   qualificationSchema,
@@ -138,6 +140,7 @@ export const coreRouteDocs: RouteDoc[] = [
   { method: 'delete', path: '/welders/:id/verify-token', summary: 'Withdraw the verify link', tag: 'Verify', access: 'any', roles: qa, status: 204, response: null },
   { method: 'get', path: '/welders/:id/timeline', summary: 'The welder’s continuity timeline', tag: 'Continuity', access: 'any', status: 200, response: timelineSchema },
   { method: 'get', path: '/welders/:id/qualified-on', summary: 'Whether the welder was qualified for a joint on a day, with the proof (qualification, continuity as of that day, revocation)', tag: 'Qualified on', access: 'any', query: qualifiedOnQueryFields, status: 200, response: qualifiedOnAnswerSchema },
+  { method: 'get', path: '/crew-finder', summary: 'Who may weld a joint from today through a day (longest in force first), and the near misses with the one reason each', tag: 'Qualified on', access: 'any', roles: managers, query: crewFinderQueryFields, status: 200, response: crewFinderAnswerSchema },
 
   // records
   { method: 'get', path: '/procedures', summary: 'WPS register', tag: 'Procedures', access: 'any', roles: managers, query: procedureListQuery, status: 200, response: items(procedureSchema) },
