@@ -56,6 +56,27 @@ describe('the public verify page', () => {
     expect(row!.tokenHash).not.toContain(token);
   });
 
+  it('never issues a link when a card or WPQ is downloaded; the status gives the live link and the documents printing it', async () => {
+    const { qa, welder } = await welderWithQualification();
+    const [q] = ((await qa.get(`/api/qualifications?welderId=${welder.id}`).expect(200)).body as { items: { id: string; number: string }[] }).items;
+    await qa.get(`/api/welders/${welder.id}/card.pdf`).expect(200);
+    await qa.get(`/api/qualifications/${q!.id}/wpq.pdf`).expect(200);
+    const rows = await api.ds.query<{ n: number }[]>(`SELECT count(*)::int AS n FROM verify_tokens WHERE welder_id = $1`, [welder.id]);
+    expect(rows[0]!.n).toBe(0);
+    expect((await qa.get(`/api/welders/${welder.id}/verify-token`).expect(200)).body).toEqual({
+      active: false,
+      issuedAt: null,
+      url: null,
+      printedOn: [],
+    });
+    const issued = (await qa.post(`/api/welders/${welder.id}/verify-token`).expect(201)).body as { url: string };
+    await qa.get(`/api/welders/${welder.id}/card.pdf`).expect(200);
+    const status = (await qa.get(`/api/welders/${welder.id}/verify-token`).expect(200)).body as Record<string, unknown>;
+    expect(status).toMatchObject({ active: true, url: issued.url });
+    expect(status.printedOn).toEqual(['the wallet card', `the WPQ record ${q!.number} (ASME IX SMAW)`]);
+    expect((await auditRows(api.ds, welder.id)).map((a) => a.action)).toEqual(['verify-token.issued']);
+  });
+
   it('stops the old link after a reissue and after revocation (410, no longer valid); a link never issued is 404, not found', async () => {
     const { qa, welder } = await welderWithQualification();
     const first = (
@@ -90,6 +111,8 @@ describe('the public verify page', () => {
     expect((await qa.get(`/api/welders/${welder.id}/verify-token`).expect(200)).body).toEqual({
       active: false,
       issuedAt: null,
+      url: null,
+      printedOn: [],
     });
     expect((await auditRows(api.ds, welder.id)).map((a) => a.action)).toEqual([
       'verify-token.issued',

@@ -9,6 +9,7 @@ import { isUuid, type Actor } from '../lib/scope.js';
 import { recordAudit } from '../lib/audit.js';
 import { VerifyTokenEntity } from './verify-token.entity.js';
 import { preparedQuery } from '../lib/prepared.js';
+import { displayName } from '@beadroll/rules';
 
 export const hashToken = (token: string): string => createHash('sha256').update(token).digest('hex');
 
@@ -156,15 +157,37 @@ export async function revokeVerifyToken(deps: AppDeps, actor: Actor, welderId: s
   });
 }
 
+/**
+ * GET /api/welders/:id/verify-token: the panel's whole state. The live link itself (sealed, so it can be
+ * shown again) and the documents that print it: the wallet card and every WPQ record of the welder carry
+ * the QR code or the link, so reissuing or revoking kills each copy of them printed since `issuedAt`.
+ */
 export async function verifyTokenStatus(
   deps: AppDeps,
   actor: Actor,
   welderId: string,
-): Promise<{ active: boolean; issuedAt: string | null }> {
+): Promise<{ active: boolean; issuedAt: string | null; url: string | null; printedOn: string[] }> {
   const db = deps.dataSource.manager;
   await welderInCompany(db, actor, welderId);
   const current = await activeToken(db, welderId);
-  return { active: current !== null, issuedAt: current ? current.issuedAt.toISOString() : null };
+  if (!current) return { active: false, issuedAt: null, url: null, printedOn: [] };
+  const wpqs = await db.query<{ number: string | null; code: string; process: string }[]>(
+    `SELECT number, code, process FROM qualifications
+      WHERE organization_id = $1 AND welder_id = $2 ORDER BY certified_on, created_at`,
+    [actor.organizationId, welderId],
+  );
+  const printedOn = [
+    'the wallet card',
+    ...wpqs.map(
+      (q) => `the WPQ record${q.number ? ` ${q.number}` : ''} (${displayName('codes', q.code)} ${q.process})`,
+    ),
+  ];
+  return {
+    active: true,
+    issuedAt: current.issuedAt.toISOString(),
+    url: urlOfSealed(deps, welderId, current.tokenSealed),
+    printedOn,
+  };
 }
 
 /**

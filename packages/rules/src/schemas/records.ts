@@ -30,7 +30,7 @@ import {
 } from './examination.js';
 import { weldingPositions } from '../ranges/positions.js';
 
-const uuid = z.string().uuid('Not a valid id');
+const uuid = z.string().uuid('Choose one from the list');
 const text = (max: number) => textSchema({ max, multiline: max > 120 });
 const required = (max: number) => text(max).min(1, 'Required');
 
@@ -406,5 +406,12 @@ export const verifySchema = z.object({
 export type VerifyView = z.infer<typeof verifySchema>;
 
 export const verifyTokenIssuedSchema = z.object({ url: z.string() });
-export const verifyTokenStatusSchema = z.object({ active: z.boolean(), issuedAt: z.string().nullable() });
+export const verifyTokenStatusSchema = z.object({
+  active: z.boolean(),
+  issuedAt: z.string().nullable(),
+  /** The live link (null when none is active, or it was sealed under another server secret). */
+  url: z.string().nullable(),
+  /** The documents that print the live link, in the trade's words ("the wallet card", "the WPQ record …"). */
+  printedOn: z.array(z.string()),
+});
 export type VerifyTokenStatus = z.infer<typeof verifyTokenStatusSchema>;

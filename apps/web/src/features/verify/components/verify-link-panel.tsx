@@ -1,19 +1,22 @@
 // The QA manager's control of a welder's public verify link: whether one is active, issue or reissue
-// it (the old link and every card printed with it stop working) and revoke it. A new link is shown once.
+// it (the old link and every card printed with it stop working, named in the warning) and revoke it. The
+// panel reads the server's state each time: downloading a card or WPQ never issues a link.
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { Button } from '@/components/ui/button';
 import { ConfirmDialog } from '@/components/ui/dialog';
 import { ErrorState, LoadingState } from '@/components/ui/states';
 import { errorMessage } from '@/lib/api-client';
+import { useUser } from '@/lib/auth';
+import { formatInstantDay } from '@beadroll/rules';
 import { useIssueVerifyToken, useRevokeVerifyToken, verifyQueries } from '../api/verify-queries';
 
 export function VerifyLinkPanel({ welderId, welderName }: { welderId: string; welderName: string }) {
+  const me = useUser();
   const status = useQuery(verifyQueries.tokenStatus(welderId));
   const issue = useIssueVerifyToken();
   const revoke = useRevokeVerifyToken();
   const [confirm, setConfirm] = useState<'issue' | 'revoke' | null>(null);
-  const [url, setUrl] = useState<string | null>(null);
   const close = () => {
     setConfirm(null);
     issue.reset();
@@ -22,22 +25,47 @@ export function VerifyLinkPanel({ welderId, welderName }: { welderId: string; we
 
   if (status.isPending) return <LoadingState label="Checking the verify link…" />;
   if (status.isError) return <ErrorState error={status.error} onRetry={() => void status.refetch()} />;
-  const active = status.data.active;
+  const { active, issuedAt, url, printedOn } = status.data;
+  const since = issuedAt ? formatInstantDay(issuedAt, me.timeZone, 'long') : null;
+  // What a reissue or a revocation kills, named: every copy of these printed since the link was issued.
+  const killed = (
+    <>
+      The QR code and link stop working at once on every copy printed since {since ?? 'the link was issued'} of:
+      <ul className="mt-1 list-disc pl-5" data-testid="verify-killed-documents">
+        {printedOn.map((d) => (
+          <li key={d}>{d}</li>
+        ))}
+      </ul>
+      Print them again afterwards.
+    </>
+  );
 
   return (
-    <div>
-      <p className="text-sm text-stone-700">
-        {active
-          ? `A verify link is active${status.data.issuedAt ? ` (issued ${new Date(status.data.issuedAt).toLocaleDateString('en-CA')})` : ''}. It is printed as a QR code on the wallet card.`
-          : 'No verify link is active: an inspector scanning an old card sees that it is no longer valid.'}
-      </p>
-      {url && (
-        <p className="mt-2 break-all rounded-md bg-accent-50 px-3 py-2 text-sm">
-          Verify link:{' '}
-          <a href={url} className="font-semibold text-accent-700 underline" data-testid="verify-url" target="_blank" rel="noreferrer">
-            {url}
-          </a>
-          <span className="block text-xs text-stone-600">Shown once; print a new wallet card so its QR code carries this link.</span>
+    <div data-testid="verify-link-state" data-active={active}>
+      {active ? (
+        <>
+          <p className="text-sm text-stone-700">
+            A verify link is active, issued {since}. The wallet card prints it as a QR code and each WPQ record
+            prints it in its footer.
+          </p>
+          {url ? (
+            <p className="mt-2 break-all rounded-md bg-accent-50 px-3 py-2 text-sm">
+              Verify link:{' '}
+              <a href={url} className="font-semibold text-accent-700 underline" data-testid="verify-url" target="_blank" rel="noreferrer">
+                {url}
+              </a>
+            </p>
+          ) : (
+            <p className="mt-2 text-sm text-stone-700">
+              The link cannot be shown with this server&rsquo;s secret, so cards and WPQs print without it. Reissue it
+              to print working cards.
+            </p>
+          )}
+        </>
+      ) : (
+        <p className="text-sm text-stone-700">
+          No verify link is active: a wallet card or WPQ downloaded now prints without a QR code, and an inspector
+          scanning an older card sees that it is no longer valid.
         </p>
       )}
       <div className="mt-2 flex flex-wrap gap-2">
@@ -56,16 +84,9 @@ export function VerifyLinkPanel({ welderId, welderName }: { welderId: string; we
         busy={issue.isPending}
         error={issue.error ? errorMessage(issue.error) : undefined}
         onCancel={close}
-        onConfirm={() =>
-          issue.mutate(welderId, {
-            onSuccess: (issued) => {
-              setUrl(issued.url);
-              close();
-            },
-          })
-        }
+        onConfirm={() => issue.mutate(welderId, { onSuccess: close })}
       >
-        {active ? 'The current link stops working at once, and so does the QR code on every card printed with it.' : 'Anyone with the link sees the name, stamp and status of each qualification today.'}
+        {active ? killed : 'Anyone with the link sees the name, stamp and status of each qualification today. Cards and WPQs downloaded afterwards print it.'}
       </ConfirmDialog>
       <ConfirmDialog
         open={confirm === 'revoke'}
@@ -74,16 +95,9 @@ export function VerifyLinkPanel({ welderId, welderName }: { welderId: string; we
         busy={revoke.isPending}
         error={revoke.error ? errorMessage(revoke.error) : undefined}
         onCancel={close}
-        onConfirm={() =>
-          revoke.mutate(welderId, {
-            onSuccess: () => {
-              setUrl(null);
-              close();
-            },
-          })
-        }
+        onConfirm={() => revoke.mutate(welderId, { onSuccess: close })}
       >
-        Cards with this link show &ldquo;This card is no longer valid&rdquo; until a new link is issued and a new card printed.
+        {killed}
       </ConfirmDialog>
     </div>
   );
