@@ -60,6 +60,8 @@ const envSchema = z
       .string()
       .default('* * * * *')
       .refine((v) => cron.validate(v), 'Not a cron expression (five fields, or six with seconds first)'),
+    /** The hourly removal of files uploaded but never attached to a record (on outside tests). */
+    UPLOAD_SWEEP_ENABLED: bool.optional(),
     /** Development only: show /api/dev/mail to anyone on this machine, signed in or not. */
     DEV_MAIL_OPEN: bool.default(false),
   })
@@ -145,6 +147,7 @@ export function loadConfig(env: Env = process.env) {
     lapseWatchEnabled: e.LAPSE_WATCH_ENABLED ?? e.NODE_ENV !== 'test',
     /** The schedule's tick: every minute unless told otherwise (the two-instance test ticks every second). */
     lapseWatchTick: e.LAPSE_WATCH_TICK,
+    uploadSweepEnabled: e.UPLOAD_SWEEP_ENABLED ?? e.NODE_ENV !== 'test',
   };
 }
 

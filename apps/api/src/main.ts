@@ -11,6 +11,7 @@ import { systemClock } from './lib/context.js';
 import { createApp } from './app.js';
 import { startLapseWatchSchedule } from './jobs/lapse-watch.job.js';
 import { startLinkMailSchedule } from './jobs/link-mail.job.js';
+import { startUploadSweep } from './jobs/upload-sweep.job.js';
 
 const config = loadConfig();
 const logger = createLogger(config);
@@ -46,6 +47,10 @@ const lapseWatch = config.lapseWatchEnabled
   : null;
 const linkMails = startLinkMailSchedule({ config, dataSource, mailer, logger, clock: systemClock });
 
+const uploadSweep = config.uploadSweepEnabled
+  ? startUploadSweep({ config, dataSource, mailer, storage, logger, clock: systemClock })
+  : null;
+
 const server = createServer(app);
 server.on('error', (err) => {
   logger.fatal({ err }, `cannot listen on ${config.host}:${config.port}`);
@@ -67,6 +72,7 @@ async function shutdown(signal: string) {
   await new Promise<void>((resolve) => server.close(() => resolve()));
   await lapseWatch?.stop();
   await linkMails.stop();
+  await uploadSweep?.stop();
   mailer.close();
   storage.close();
   await dataSource.destroy();

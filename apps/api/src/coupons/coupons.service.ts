@@ -181,7 +181,7 @@ async function prepare(
   const linked = await linkRetest(db, actor, input, welderId, couponId);
   const evaluation = evaluateCoupon(linked.fields);
   const refs = attachmentRefs(input);
-  await checkAttachments(db, actor, refs);
+  await checkAttachments(db, actor, refs, deps.clock.now());
   return {
     write: {
       shopId: input.shopId,

@@ -60,3 +60,40 @@ export async function uploadsOfOrganization(
   );
   return new Map(rows.map((r) => [r.id, toUpload(r)]));
 }
+
+/** Marks pending uploads of the organization as attached to a record being saved (caller's transaction). */
+export async function attachUploads(db: EntityManager, organizationId: string, ids: string[], at: Date): Promise<void> {
+  if (ids.length === 0) return;
+  await db.query(
+    `UPDATE uploads SET attached_at = $3
+      WHERE organization_id = $1 AND id = ANY($2::uuid[]) AND attached_at IS NULL`,
+    [organizationId, ids, at],
+  );
+}
+
+/**
+ * Deletes up to `limit` uploads pending since before `before` and named by no record, skipping rows that a
+ * save in progress holds; returns what was deleted.
+ */
+export async function deletePendingUploads(
+  db: EntityManager,
+  before: Date,
+  limit: number,
+): Promise<{ id: string; organizationId: string; storageKey: string; fileName: string; kind: string }[]> {
+  return db.query(
+    `WITH gone AS (
+     DELETE FROM uploads d
+      WHERE d.id IN (
+        SELECT u.id FROM uploads u
+         WHERE u.attached_at IS NULL AND u.created_at < $1
+           AND NOT EXISTS (SELECT 1 FROM coupon_uploads cu WHERE cu.upload_id = u.id)
+           AND NOT EXISTS (SELECT 1 FROM procedures p WHERE p.document_upload_id = u.id)
+         ORDER BY u.created_at
+         LIMIT $2
+           FOR UPDATE SKIP LOCKED)
+      RETURNING d.id, d.organization_id AS "organizationId", d.storage_key AS "storageKey",
+                d.file_name AS "fileName", d.kind)
+     SELECT * FROM gone`,
+    [before, limit],
+  );
+}

@@ -195,23 +195,63 @@ export async function uploadContent(
 }
 
 /**
- * Checks that every named upload id is the company's, inside the caller's transaction; a foreign or
- * unknown one is a 400 on its field. Returns the uploads by id.
+ * Checks that every named upload id is the company's, inside the caller's transaction, and attaches the
+ * pending ones to the record being saved (so the sweep never takes them); a foreign, unknown or already
+ * swept one is a 400 on its field. Returns the uploads by id.
  */
 export async function checkAttachments(
   db: EntityManager,
   actor: Actor,
   refs: Array<{ field: string; id: string }>,
+  now: Date = new Date(),
 ): Promise<Map<string, Upload>> {
-  const found = await repo.uploadsOfOrganization(
-    db,
-    actor.organizationId,
-    [...new Set(refs.map((r) => r.id))].filter(isUuid),
-  );
+  const ids = [...new Set(refs.map((r) => r.id))].filter(isUuid);
+  // First the attach (it waits for a sweep holding the row, then finds the row gone), then the read.
+  await repo.attachUploads(db, actor.organizationId, ids, now);
+  const found = await repo.uploadsOfOrganization(db, actor.organizationId, ids);
   const fields: Record<string, string> = {};
   for (const r of refs) if (!found.has(r.id)) fields[r.field] = 'No such upload in your company';
   if (Object.keys(fields).length > 0) throw AppError.validation(fields);
   return found;
+}
+
+/** How long a file uploaded from a form waits for its record to be saved before the sweep removes it. */
+export const PENDING_UPLOAD_TTL_MS = 24 * 3600 * 1000;
+
+/**
+ * Removes the files uploaded from forms that were never saved: pending (never attached) for longer than
+ * `ttlMs`. Rows and their audit lines go in one transaction (a batch at a time, skipping rows a save holds),
+ * then the objects are deleted from the store. Returns how many were removed.
+ */
+export async function sweepPendingUploads(
+  deps: AppDeps,
+  ttlMs = PENDING_UPLOAD_TTL_MS,
+): Promise<number> {
+  let removed = 0;
+  for (;;) {
+    const now = deps.clock.now();
+    const gone = await deps.dataSource.transaction(async (db) => {
+      const rows = await repo.deletePendingUploads(db, new Date(now.getTime() - ttlMs), 200);
+      for (const r of rows)
+        await db.query(
+          `INSERT INTO audit_events (organization_id, actor_id, at, action, entity_type, entity_id, before, after)
+           VALUES ($1, NULL, $2, 'upload.discarded', 'upload', $3, $4, NULL)`,
+          [
+            r.organizationId,
+            now,
+            r.id,
+            JSON.stringify({ fileName: r.fileName, kind: r.kind, reason: 'never attached to a saved record' }),
+          ],
+        );
+      return rows;
+    });
+    for (const r of gone)
+      await deps.storage.delete(r.storageKey).catch((err: unknown) => {
+        deps.logger.error({ err, storageKey: r.storageKey }, 'could not delete a swept upload object');
+      });
+    removed += gone.length;
+    if (gone.length < 200) return removed;
+  }
 }
 
 export const uploadsById = (db: EntityManager, organizationId: string, ids: string[]) =>
