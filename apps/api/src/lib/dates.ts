@@ -35,17 +35,32 @@ export function todayIn(timeZone: string, at: Date | Clock): string {
   return wallTimeIn(timeZone, at instanceof Date ? at : at.now()).day;
 }
 
-/** The IANA time zone of the server process (TZ, else the system's), the default of every company. */
+/**
+ * The IANA time zone of the server process (TZ, else the system's), the default of every company. Read
+ * once per value of TZ: resolving it builds a formatter (tens of microseconds) and it was asked on every
+ * request. Node re-reads its zone only when TZ is assigned, so the cache keyed by TZ is exact.
+ */
+let serverZone: { tz: string | undefined; zone: string } | null = null;
 export function serverTimeZone(): string {
-  return Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC';
+  // TZ is the runtime's own zone setting (config.ts reads the app's configuration).
+  const tz = process.env.TZ;
+  if (serverZone?.tz !== tz || serverZone === null)
+    serverZone = { tz, zone: Intl.DateTimeFormat().resolvedOptions().timeZone || 'UTC' };
+  return serverZone.zone;
 }
 
-/** True when `timeZone` is an IANA zone name this runtime knows. */
+const knownZones = new Map<string, boolean>();
+/** True when `timeZone` is an IANA zone name this runtime knows (remembered: the runtime's list is fixed). */
 export function isTimeZone(timeZone: string): boolean {
-  try {
-    new Intl.DateTimeFormat('en', { timeZone });
-    return timeZone.length > 0;
-  } catch {
-    return false;
+  let known = knownZones.get(timeZone);
+  if (known === undefined) {
+    try {
+      new Intl.DateTimeFormat('en', { timeZone });
+      known = timeZone.length > 0;
+    } catch {
+      known = false;
+    }
+    if (knownZones.size < 1000) knownZones.set(timeZone, known);
   }
+  return known;
 }
