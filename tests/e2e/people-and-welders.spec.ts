@@ -3,7 +3,7 @@
 // is named next to the Stamp field.
 import type { Browser } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { baseUrl, launchBrowser, newSession, pageErrors } from '../support/browser.js';
+import { baseUrl, consoleProblems, launchBrowser, newSession, pageErrors } from '../support/browser.js';
 import { demo, mainNavigation, signIn, signOut } from '../support/e2e-demo.js';
 
 let browser: Browser;
@@ -66,6 +66,8 @@ describe('people and welders', () => {
     await page.goto(href.slice(href.indexOf('/set-password')));
     await page.getByText('This link cannot be used').waitFor();
     expect(pageErrors(page).join('\n')).toBe('');
+    // Neither setting the password nor reopening the used link logs a failed request.
+    expect(consoleProblems(page)).toEqual([]);
     await invitee.context.close();
   });
 

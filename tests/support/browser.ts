@@ -47,10 +47,24 @@ export async function newSession(
   const problems: string[] = [];
   page.on('pageerror', (error) => problems.push(error.message));
   errorsByPage.set(page, problems);
+  const logged: string[] = [];
+  page.on('console', (message) => {
+    if (message.type() === 'error' || message.type() === 'warning') logged.push(`${message.type()}: ${message.text()}`);
+  });
+  consoleByPage.set(page, logged);
   return { context, page };
 }
 
 const errorsByPage = new WeakMap<Page, string[]>();
+const consoleByPage = new WeakMap<Page, string[]>();
+
+/**
+ * Errors and warnings the browser's console showed so far, including failed requests ("Failed to load
+ * resource: … 400"): a page a newcomer opens should log nothing.
+ */
+export function consoleProblems(page: Page): string[] {
+  return consoleByPage.get(page) ?? [];
+}
 
 /** Uncaught errors the page threw so far; a journey ends by checking there were none. */
 export function pageErrors(page: Page): string[] {

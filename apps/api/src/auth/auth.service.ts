@@ -169,22 +169,22 @@ export async function requestPasswordReset(deps: AppDeps, email: string): Promis
   await sendDueLinkMails(deps, user.organizationId);
 }
 
-function parseToken(token: string): string {
-  const parsed = setPasswordInput.shape.token.safeParse(token);
-  if (!parsed.success) throw AppError.validation({ token: BAD_LINK }, BAD_LINK);
-  return parsed.data;
-}
-
 export async function getTokenInfo(deps: AppDeps, token: string): Promise<TokenInfo> {
-  const row = await repo.findValidToken(
-    deps.dataSource.manager,
-    hashToken(parseToken(token)),
-    deps.clock.now(),
-  );
-  if (!row) throw AppError.validation({ token: BAD_LINK }, BAD_LINK);
+  const parsed = setPasswordInput.shape.token.safeParse(token);
+  const row = parsed.success
+    ? await repo.findValidToken(deps.dataSource.manager, hashToken(parsed.data), deps.clock.now())
+    : null;
+  if (!row) return { usable: false, message: BAD_LINK };
   if (!row.hadPassword && (await repo.addressSignsInElsewhere(deps.dataSource.manager, row.userId, row.email)))
-    throw addressTaken();
-  return { email: row.email, name: row.name, purpose: row.purpose, expiresAt: row.expiresAt.toISOString() };
+    return { usable: false, message: addressTaken().message };
+  return {
+    usable: true,
+    email: row.email,
+    name: row.name,
+    purpose: row.purpose,
+    expiresAt: row.expiresAt.toISOString(),
+    timeZone: await companyTimeZone(deps.dataSource.manager, row.organizationId),
+  };
 }
 
 /**

@@ -9,7 +9,7 @@ export type Role = z.infer<typeof roleSchema>;
 
 const trimmed = (max: number) => textSchema({ max, min: 1 });
 const email = z.string().trim().toLowerCase().email('Enter a valid e-mail address').max(254);
-const uuid = z.string().uuid('Not a valid id');
+const uuid = z.string().uuid('Choose one from the list');
 
 export const passwordSchema = z
   .string()
@@ -51,12 +51,22 @@ export const meSchema = z.object({
 });
 export type Me = z.infer<typeof meSchema>;
 
-export const tokenInfoSchema = z.object({
-  email: z.string(),
-  name: z.string(),
-  purpose: z.enum(['invitation', 'password-reset']),
-  expiresAt: z.string(),
-});
+/**
+ * What a set-password link is for. A link that cannot be used (expired, used, unknown, or an address that
+ * signs in elsewhere) is an answer too, not an error: the page says why, and the browser logs nothing.
+ */
+export const tokenInfoSchema = z.discriminatedUnion('usable', [
+  z.object({
+    usable: z.literal(true),
+    email: z.string(),
+    name: z.string(),
+    purpose: z.enum(['invitation', 'password-reset']),
+    expiresAt: z.string(),
+    /** The inviting company's time zone: the link's end is shown on its clock. */
+    timeZone: z.string(),
+  }),
+  z.object({ usable: z.literal(false), message: z.string() }),
+]);
 export type TokenInfo = z.infer<typeof tokenInfoSchema>;
 
 // ---- shops ------------------------------------------------------------------------------------------

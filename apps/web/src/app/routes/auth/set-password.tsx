@@ -1,4 +1,4 @@
-import { passwordSchema, type TokenInfo } from '@beadroll/rules';
+import { formatInstant, passwordSchema, type TokenInfo } from '@beadroll/rules';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useNavigate, useSearchParams } from 'react-router-dom';
 import { z } from 'zod';
@@ -37,7 +37,7 @@ function LinkProblem({ message }: { message: string }) {
   );
 }
 
-function SetPasswordForm({ token, info }: { token: string; info: TokenInfo }) {
+function SetPasswordForm({ token, info }: { token: string; info: Extract<TokenInfo, { usable: true }> }) {
   const navigate = useNavigate();
   const setPassword = useSetPassword();
   const { errors, read, showApiError } = usePlainForm(passwordForm, passwordFields);
@@ -63,7 +63,7 @@ function SetPasswordForm({ token, info }: { token: string; info: TokenInfo }) {
       intro={
         <>
           {invitation ? `Welcome, ${info.name}. ` : ''}This sets the password for <strong>{info.email}</strong>. The link works
-          until {new Date(info.expiresAt).toLocaleString()}.
+          until {formatInstant(info.expiresAt, info.timeZone, 'long')}.
         </>
       }
     >
@@ -113,5 +113,6 @@ export default function SetPasswordRoute() {
     const message = error instanceof ApiError && error.fields.token ? error.fields.token : errorMessage(error);
     return <LinkProblem message={message} />;
   }
+  if (!info.data.usable) return <LinkProblem message={info.data.message} />;
   return <SetPasswordForm token={token} info={info.data} />;
 }

@@ -4,7 +4,7 @@ import { apiRequest } from '@/lib/api-client';
 
 export const tokenQueries = {
   all: () => ['auth', 'tokens'] as const,
-  /** Who a set-password link is for; an expired or used link answers 400 with fields.token. */
+  /** Who a set-password link is for; an expired or used link answers 200 with `usable: false` and why. */
   info: (token: string) =>
     queryOptions({
       queryKey: [...tokenQueries.all(), token] as const,
