@@ -1,4 +1,5 @@
 // @beadroll/rules: the single source of truth for Beadroll's computation and its input contracts.
+import './validation/plain-messages.js';
 export * from './schemas/foundation.js';
 
 // input contracts of the domain
@@ -132,3 +133,12 @@ export {
 
 // the trade's names of internal ids, for every screen, PDF and e-mail
 export * from './names/display-names.js';
+
+// dates as every screen, PDF and e-mail writes them
+export {
+  COMPANY_LOCALE,
+  formatDay,
+  formatInstant,
+  formatInstantDay,
+  type DateStyle,
+} from './dates/format-dates.js';

@@ -10,7 +10,7 @@ export const apiTokenInput = z.object({
   name: z.string().trim().min(1, 'Required').max(80, 'At most 80 characters'),
   access: z.enum(apiTokenAccess, 'Choose read-only or read and write'),
   /** Shops the token may reach; empty means every shop of the company. */
-  shopIds: z.array(z.string().uuid('Not a valid id')).max(50).optional().default([]),
+  shopIds: z.array(z.string().uuid('Choose one from the list')).max(50).optional().default([]),
 });
 export type ApiTokenInput = z.input<typeof apiTokenInput>;
 

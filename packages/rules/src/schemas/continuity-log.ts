@@ -6,7 +6,7 @@ import { isIsoDate } from '../continuity/calendar.js';
 import { processes } from './coupon.js';
 import { searchQuerySchema, textSchema } from './common.js';
 
-const uuid = z.string().uuid('Not a valid id');
+const uuid = z.string().uuid('Choose one from the list');
 export const monthText = z
   .string()
   .regex(/^\d{4}-(0[1-9]|1[0-2])$/, 'Write the month as YYYY-MM')

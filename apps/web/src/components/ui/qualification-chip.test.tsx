@@ -33,7 +33,7 @@ describe('qualification status chips', () => {
     const lapsing = screen.getByText('GTAW ASME IX lapsing · 9 days left');
     expect(lapsing.closest('[data-tone]')?.getAttribute('data-tone')).toBe('warn');
     expect(lapsing.closest('[data-tone]')?.querySelector('svg')).not.toBeNull();
-    expect(lapsing.closest('[title]')?.getAttribute('title')).toBe('GTAW to ASME IX: lapses on 2026-12-11, 9 days left');
+    expect(lapsing.closest('[title]')?.getAttribute('title')).toBe('GTAW to ASME IX: lapses on 11 December 2026, 9 days left');
     expect(screen.getByText('SMAW ASME IX revoked').closest('[data-tone]')?.getAttribute('data-tone')).toBe('bad');
     expect(screen.queryByText('GTAW ASME IX current')).toBeNull();
   });

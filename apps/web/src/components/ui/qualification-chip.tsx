@@ -1,6 +1,6 @@
 // A qualification's continuity status as a chip: process, code, status word, icon and colour; the days
 // left as a tooltip, and as visible text while it is lapsing (the one a foreman must act on).
-import { codeNames, type CodeId } from '@beadroll/rules';
+import { codeNames, formatDay, type CodeId } from '@beadroll/rules';
 import { StatusChip } from './status-chip';
 
 export interface QualificationState {
@@ -32,7 +32,7 @@ export function chipLabel(q: Pick<QualificationState, 'process' | 'code' | 'stat
 export function chipTitle(q: QualificationState): string {
   const what = `${q.process} to ${codeName(q.code)}`;
   if (q.state === 'revoked') return `${what}: revoked`;
-  return `${what}: ${q.state === 'lapsed' ? 'lapsed on' : 'lapses on'} ${q.lapsesOn}, ${daysText(q.daysLeft)}`;
+  return `${what}: ${q.state === 'lapsed' ? 'lapsed on' : 'lapses on'} ${formatDay(q.lapsesOn, 'long')}, ${daysText(q.daysLeft)}`;
 }
 
 export function QualificationChip({ qualification }: { qualification: QualificationState }) {

@@ -1,6 +1,6 @@
 // What a qualification (or a coupon about to be certified) lets the welder weld, in plain words, with
 // the clause behind every limit and the standing caution that the code, the manual and the inspector govern.
-import { formatLength, weldingPositionNames, type Interval, type Length, type QualifiedRanges } from '@beadroll/rules';
+import { displayName, formatLength, weldingPositionNames, type Interval, type Length, type QualifiedRanges } from '@beadroll/rules';
 import { z } from 'zod';
 
 const lengthView = z.object({ value: z.number(), unit: z.enum(['in', 'mm']) });
@@ -79,7 +79,19 @@ export function rangeLines(r: RangesView | QualifiedRanges): Array<{ label: stri
 export const RANGES_CAUTION =
   'Computed by Beadroll from the coupon; the code edition in force, the company’s quality manual and the responsible inspector govern. Each limit names its clause.';
 
-export function RangesView({ ranges, heading = 'Qualified ranges' }: { ranges: RangesView | QualifiedRanges; heading?: string }) {
+/**
+ * `showSources`: the QA manager also sees where each limit's value comes from (published, from memory,
+ * common practice) in a details view; welders, foremen and the public see the clause only.
+ */
+export function RangesView({
+  ranges,
+  heading = 'Qualified ranges',
+  showSources = false,
+}: {
+  ranges: RangesView | QualifiedRanges;
+  heading?: string;
+  showSources?: boolean;
+}) {
   return (
     <div>
       <h3 className="text-sm font-bold text-stone-800">{heading}</h3>
@@ -98,10 +110,21 @@ export function RangesView({ ranges, heading = 'Qualified ranges' }: { ranges: R
             <span className="text-xs font-semibold text-stone-500">{VARIABLE_WORDS[limit.variable] ?? limit.variable}</span>
             <span className="text-stone-900">{limit.text}</span>
             <span className="rounded bg-stone-100 px-1.5 text-xs font-semibold text-stone-700">{limit.clause}</span>
-            <span className="text-xs text-stone-500">({limit.source.replace(/-/g, ' ')})</span>
           </li>
         ))}
       </ul>
+      {showSources && (
+        <details className="mt-2 text-xs text-stone-700">
+          <summary className="cursor-pointer font-semibold text-stone-600">Where each limit&rsquo;s value comes from</summary>
+          <ul className="mt-1 space-y-0.5">
+            {ranges.limits.map((limit, i) => (
+              <li key={i}>
+                {limit.clause}: {displayName('sourceKinds', limit.source)}
+              </li>
+            ))}
+          </ul>
+        </details>
+      )}
       <p className="mt-2 text-xs text-stone-600">{ranges.notice ?? RANGES_CAUTION}</p>
     </div>
   );

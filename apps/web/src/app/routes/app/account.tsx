@@ -10,9 +10,10 @@ import { ErrorState, LoadingState } from '@/components/ui/states';
 import { sessionQueries, useEndSessions } from '@/features/account/api/session-queries';
 import { errorMessage } from '@/lib/api-client';
 import { useUser } from '@/lib/auth';
+import { formatInstant } from '@beadroll/rules';
 
-function when(iso: string): string {
-  return new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+function when(iso: string, timeZone: string): string {
+  return formatInstant(iso, timeZone, 'long');
 }
 
 /** A short, human name for a browser's user-agent string. */
@@ -71,12 +72,12 @@ export default function AccountRoute() {
                       {s.current && <span className="ml-2 text-sm font-normal text-accent-700">this browser</span>}
                     </p>
                     <p className="text-sm text-stone-600">
-                      Signed in {when(s.createdAt)} · last used {when(s.lastSeenAt)}
+                      Signed in {when(s.createdAt, me.timeZone)} · last used {when(s.lastSeenAt, me.timeZone)}
                       {s.address ? ` · from ${s.address}` : ''}
                     </p>
                   </div>
                   {!s.current && (
-                    <Button variant="ghost" size="row" onClick={() => setPending({ kind: 'one', session: s })} aria-label={`Sign out ${deviceName(s.userAgent)}, signed in ${when(s.createdAt)}`}>
+                    <Button variant="ghost" size="row" onClick={() => setPending({ kind: 'one', session: s })} aria-label={`Sign out ${deviceName(s.userAgent)}, signed in ${when(s.createdAt, me.timeZone)}`}>
                       Sign out
                     </Button>
                   )}
@@ -98,7 +99,7 @@ export default function AccountRoute() {
         {pending?.kind === 'others'
           ? `Every other browser and device signed in as you (${others.length}) will have to sign in again. This one stays signed in.`
           : pending?.kind === 'one'
-            ? `${deviceName(pending.session.userAgent)}, signed in ${when(pending.session.createdAt)}, will have to sign in again.`
+            ? `${deviceName(pending.session.userAgent)}, signed in ${when(pending.session.createdAt, me.timeZone)}, will have to sign in again.`
             : null}
       </ConfirmDialog>
     </>

@@ -15,6 +15,7 @@ import { lapseWatchQueries, useRunLapseWatch } from '@/features/lapse-watch/api/
 import { triggerWords } from '@/features/lapse-watch/components/run-summary';
 import { daysText } from '@/components/ui/qualification-chip';
 import { errorMessage } from '@/lib/api-client';
+import { displayName, formatInstant } from '@beadroll/rules';
 
 const thresholdWords = (t: string) =>
   t === 'lapsed' ? 'Lapsed' : t === 'restored' ? 'Back in continuity' : `${t}-day warning`;
@@ -124,7 +125,7 @@ function LapseWatchPanels({ today, timeZone }: { today: string; timeZone: string
                             {n.welder.name}
                           </td>
                           <td className="px-3 py-2">
-                            {n.process} · {n.code}
+                            {n.process} · {displayName('codes', n.code)}
                           </td>
                           <td className="px-3 py-2">{thresholdWords(n.threshold)}</td>
                           <td className="px-3 py-2 tabular-nums">
@@ -168,7 +169,7 @@ function LapseWatchPanels({ today, timeZone }: { today: string; timeZone: string
               <tbody className="divide-y divide-stone-100">
                 {runs.data.map((r) => (
                   <tr key={r.id}>
-                    <td className="px-3 py-2 tabular-nums">{new Date(r.startedAt).toLocaleString()}</td>
+                    <td className="px-3 py-2 tabular-nums">{formatInstant(r.startedAt, timeZone)}</td>
                     <td className="px-3 py-2 tabular-nums">{r.asOf}</td>
                     <td className="px-3 py-2">{triggerWords[r.trigger]}</td>
                     <td className="px-3 py-2">{runStatusWords(r)}</td>
@@ -219,7 +220,7 @@ function LapseWatchPanels({ today, timeZone }: { today: string; timeZone: string
                       <span className="font-semibold">{n.welder.stamp}</span> {n.welder.name}
                     </td>
                     <td className="px-3 py-2">
-                      {n.process} · {n.code}
+                      {n.process} · {displayName('codes', n.code)}
                     </td>
                     <td className="px-3 py-2">{thresholdWords(n.threshold)}</td>
                     <td className="px-3 py-2 tabular-nums">{n.lapsesOn}</td>

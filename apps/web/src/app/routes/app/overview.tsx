@@ -146,7 +146,7 @@ export default function OverviewRoute() {
                   Latest lapse watch
                 </h2>
                 <Card className="p-4 text-sm">
-                  <RunSummary run={overview.data.latestRun} />
+                  <RunSummary run={overview.data.latestRun} timeZone={me.timeZone} />
                   {isQa && (
                     <ButtonLink className="mt-3" to={paths.lapseWatch.href()}>
                       Open Lapse watch

@@ -23,6 +23,7 @@ import { welderQueries } from '@/features/welders/api/welder-queries';
 import { defaultWelderFilters } from '@/features/welders/api/welder-search';
 import { errorMessage } from '@/lib/api-client';
 import { roleLabels, useUser } from '@/lib/auth';
+import { formatInstant } from '@beadroll/rules';
 
 const column = createColumnHelper<Person>();
 type Action =
@@ -32,21 +33,21 @@ type Action =
   | { kind: 'reactivate'; person: Person }
   | null;
 
-function lastSignIn(iso: string | null): string {
+function lastSignIn(iso: string | null, timeZone: string): string {
   if (!iso) return 'never';
-  return new Date(iso).toLocaleString(undefined, { dateStyle: 'medium', timeStyle: 'short' });
+  return formatInstant(iso, timeZone);
 }
 
 export default function PeopleRoute() {
   const me = useUser();
   return (
     <RequireRole roles={['qa_manager']} title="People">
-      <PeopleScreen myId={me.id} />
+      <PeopleScreen myId={me.id} timeZone={me.timeZone} />
     </RequireRole>
   );
 }
 
-function PeopleScreen({ myId }: { myId: string }) {
+function PeopleScreen({ myId, timeZone }: { myId: string; timeZone: string }) {
   const people = useQuery(peopleQueries.list());
   const shops = useQuery(shopQueries.list());
   const [action, setAction] = useState<Action>(null);
@@ -95,7 +96,7 @@ function PeopleScreen({ myId }: { myId: string }) {
         },
       }),
       column.accessor('status', { header: 'Status', cell: (i) => <StatusChip status={`person.${i.getValue()}`} />, meta: { className: 'w-28' } }),
-      column.accessor('lastSignInAt', { header: 'Last sign-in', cell: (i) => <span className="whitespace-nowrap text-stone-600">{lastSignIn(i.getValue())}</span> }),
+      column.accessor('lastSignInAt', { header: 'Last sign-in', cell: (i) => <span className="whitespace-nowrap text-stone-600">{lastSignIn(i.getValue(), timeZone)}</span> }),
       column.display({
         id: 'actions',
         header: () => <span className="sr-only">Actions</span>,
@@ -135,7 +136,7 @@ function PeopleScreen({ myId }: { myId: string }) {
         meta: { className: 'text-right' },
       }),
     ],
-    [myId, resend],
+    [myId, resend, timeZone],
   );
   const table = useReactTable({ data: people.data ?? [], columns, getCoreRowModel: getCoreRowModel(), getRowId: (p) => p.id, enableSorting: false });
 

@@ -31,6 +31,7 @@ import { welderQueries } from '@/features/welders/api/welder-queries';
 import { WELDER_CONFLICT_MESSAGE, WelderForm } from '@/features/welders/components/welder-form';
 import { ApiError, errorMessage } from '@/lib/api-client';
 import { useUser } from '@/lib/auth';
+import { formatInstantDay } from '@beadroll/rules';
 
 function Detail({ label, children }: { label: string; children: ReactNode }) {
   return (
@@ -85,6 +86,7 @@ function WelderQualifications({ welderId, isQa }: { welderId: string; isQa: bool
             <QualificationCard
               key={q.id}
               qualification={q}
+              showSources={isQa}
               actions={
                 isQa &&
                 q.status.state !== 'revoked' &&
@@ -300,7 +302,7 @@ export default function WelderRoute() {
                 <span className="text-stone-600">No sign-in{isQa && !w.email ? ' (add a contact e-mail to give one)' : ''}</span>
               )}
             </Detail>
-            <Detail label="In Beadroll since">{new Date(w.createdAt).toLocaleDateString(undefined, { dateStyle: 'medium' })}</Detail>
+            <Detail label="In Beadroll since">{formatInstantDay(w.createdAt, me.timeZone, 'long')}</Detail>
           </dl>
         </Card>
         <Card className="p-4">

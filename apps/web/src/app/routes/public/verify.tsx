@@ -9,6 +9,7 @@ import { ErrorState, LoadingState } from '@/components/ui/states';
 import { verifyQueries } from '@/features/verify/api/verify-queries';
 import { ApiError } from '@/lib/api-client';
 import { codeNames } from '@/lib/codes';
+import { formatDay } from '@beadroll/rules';
 
 function Problem({ error, onRetry }: { error: unknown; onRetry: () => void }) {
   // A link never issued (mistyped, cut short) is not a revoked card: the inspector is told which.
@@ -57,12 +58,12 @@ export default function VerifyRoute() {
             <p className="mt-1 text-stone-700">
               Stamp <strong className="tabular-nums">{view.data.welder.stamp}</strong> · {view.data.company}
             </p>
-            <p className="mt-1 text-sm text-stone-600">Status as of {view.data.asOf}</p>
+            <p className="mt-1 text-sm text-stone-600">Status as of {formatDay(view.data.asOf, 'long')}</p>
             {view.data.leftOn !== null ? (
               <div role="alert" className="mt-4 rounded-md border border-red-200 bg-red-50 px-3 py-3 text-red-900">
                 <p className="font-bold">No longer with the company</p>
                 <p className="mt-1 text-sm">
-                  {view.data.welder.name} left {view.data.company} on {view.data.leftOn}. This card is not valid for work; ask the welder&apos;s current employer.
+                  {view.data.welder.name} left {view.data.company} on {formatDay(view.data.leftOn, 'long')}. This card is not valid for work; ask the welder&apos;s current employer.
                 </p>
               </div>
             ) : view.data.qualifications.length === 0 ? (
@@ -79,7 +80,7 @@ export default function VerifyRoute() {
                     </div>
                     <p className="mt-1 text-sm text-stone-700">{q.summary}</p>
                     <p className="text-xs text-stone-600">
-                      {q.state === 'lapsed' || q.state === 'revoked' ? `Not in force since ${q.lapsesOn}` : `Lapses on ${q.lapsesOn} unless continued by documented use`}
+                      {q.state === 'lapsed' || q.state === 'revoked' ? `Not in force since ${formatDay(q.lapsesOn, 'long')}` : `Lapses on ${formatDay(q.lapsesOn, 'long')} unless continued by documented use`}
                     </p>
                   </li>
                 ))}

@@ -1,6 +1,6 @@
 // A welder's continuity per process: the state today, the last logged use, and (on the welder file) the
 // whole history: tests, logged use, lapses, renewals, flags and revocation, oldest first.
-import type { Timeline } from '@beadroll/rules';
+import { displayName, formatDay, type Timeline } from '@beadroll/rules';
 import { useQuery } from '@tanstack/react-query';
 import { daysText } from '@/components/ui/qualification-chip';
 import { Card } from '@/components/ui/page-header';
@@ -51,13 +51,13 @@ export function ContinuitySummary({ welderId, full = false }: { welderId: string
           <Card key={`${p.process}:${p.code}`} className="p-4" >
             <div className="flex flex-wrap items-center gap-x-3 gap-y-1" data-process={p.process}>
               <h3 className="font-bold">
-                {p.process} <span className="text-sm font-normal text-stone-500">{p.code}</span>
+                {p.process} <span className="text-sm font-normal text-stone-500">{displayName('codes', p.code)}</span>
               </h3>
               <StatusChip status={stateKey(p.state)} />
               {p.state !== 'revoked' && days !== null && (
                 <span className="text-sm text-stone-700">
                   {daysText(days)}
-                  {p.lapsesOn ? ` · ${days > 0 ? 'lapses on' : 'since'} ${p.lapsesOn}` : ''}
+                  {p.lapsesOn ? ` · ${days > 0 ? 'lapses on' : 'since'} ${formatDay(p.lapsesOn, 'long')}` : ''}
                 </span>
               )}
               <span className="text-sm text-stone-700">Last logged use: {last ?? 'none yet'}</span>

@@ -434,7 +434,7 @@ export function CouponForm({ welders, shops, procedures, prefill, onSaved, onCan
         <VerdictPanel analysis={analysis} />
         <Card className="p-4">
           {analysis.ranges ? (
-            <RangesView ranges={analysis.ranges} heading="Qualified ranges if this coupon passes" />
+            <RangesView ranges={analysis.ranges} heading="Qualified ranges if this coupon passes" showSources />
           ) : (
             <p className="text-sm text-stone-600">
               {analysis.missing.length > 0 ? `Enter ${analysis.missing.join(', ')} to see the ranges this coupon would qualify.` : 'Fix the fields marked in red to see the ranges.'}

@@ -1,14 +1,14 @@
 // One lapse-watch run in words: when, what started it, how it ended and what it sent.
-import type { LapseWatchRun } from '@beadroll/rules';
+import { formatDay, formatInstant, type LapseWatchRun } from '@beadroll/rules';
 
 export const triggerWords = { manual: 'Run now', cli: 'Command line', schedule: 'Daily schedule' } as const;
 
-export function RunSummary({ run }: { run: LapseWatchRun | null }) {
+export function RunSummary({ run, timeZone }: { run: LapseWatchRun | null; timeZone: string }) {
   if (!run) return <p className="text-stone-600">Lapse watch has not run yet.</p>;
   return (
     <dl className="grid grid-cols-[auto_1fr] gap-x-3 gap-y-1">
       <dt className="text-stone-500">When</dt>
-      <dd>{new Date(run.startedAt).toLocaleString()} (for {run.asOf})</dd>
+      <dd>{formatInstant(run.startedAt, timeZone, 'long')} (for {formatDay(run.asOf, 'long')})</dd>
       <dt className="text-stone-500">Started by</dt>
       <dd>{triggerWords[run.trigger]}</dd>
       <dt className="text-stone-500">Result</dt>

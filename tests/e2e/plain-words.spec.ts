@@ -1,0 +1,96 @@
+// The welder's pages and the public Verify page speak the trade's words: no internal ids (asme-ix,
+// shop-general), no raw validation wording ("Not a valid id", "Choose one of asme-ix…"), no source tags
+// of the rules ("from memory", "read second-hand", "common practice (no source)") — those are for the QA
+// manager's details view. Dates read one way: ISO in tables, the long form in prose.
+import type { Browser, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { launchBrowser, newSession, pageErrors } from '../support/browser.js';
+import { demo, signIn, signOut } from '../support/e2e-demo.js';
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+const DEVELOPER_WORDS: [string, RegExp][] = [
+  ['an internal code id', /\b(asme-ix|aws-d1\.1|api-1104|iso-9606-1|shop-general|beadroll-default)\b/],
+  ['a criteria id label', /Criteria set:/i],
+  ['a raw validation message', /Not a valid id|Choose one of|Invalid (input|option)|expected (string|number)/i],
+  ['a source tag', /from memory|second-hand|no source|common practice|from-memory|common-practice/i],
+  ['a record id', /\b[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}\b/i],
+  ['a machine timestamp', /\d{4}-\d{2}-\d{2}T\d{2}:\d{2}/],
+];
+
+/** The words a person reads on the page, including what opens in <details>, with the hidden parts left out. */
+async function visibleWords(page: Page): Promise<string> {
+  await page.evaluate(() => document.querySelectorAll('details').forEach((d) => d.setAttribute('open', '')));
+  return page.locator('body').innerText();
+}
+
+function developerWordsIn(text: string): string[] {
+  return DEVELOPER_WORDS.flatMap(([what, pattern]) => {
+    const m = pattern.exec(text);
+    return m ? [`${what}: "${text.slice(Math.max(0, m.index - 40), m.index + m[0].length + 40).replace(/\s+/g, ' ')}"`] : [];
+  });
+}
+
+async function settled(page: Page): Promise<void> {
+  await page.waitForLoadState('networkidle');
+  await page.getByText(/Loading|Checking/).first().waitFor({ state: 'detached', timeout: 15_000 }).catch(() => undefined);
+}
+
+describe('plain words on the welder’s and public pages', () => {
+  it('the welder’s own pages and the verify page show no developer words', async () => {
+    // The live verify link of the demo welder, as the QA manager's panel shows it.
+    const qa = await newSession(browser);
+    await signIn(qa.page, demo.qa.email);
+    const welderId = await qa.page.evaluate(async (stamp) => {
+      const res = await fetch(`/api/welders?q=${encodeURIComponent(stamp)}`);
+      const body = (await res.json()) as { items: { id: string; stamp: string }[] };
+      return body.items.find((w) => w.stamp === stamp)?.id ?? '';
+    }, demo.welder.stamp);
+    expect(welderId).not.toBe('');
+    const token = await qa.page.evaluate(async (id) => {
+      const res = await fetch(`/api/welders/${id}/verify-token`);
+      return ((await res.json()) as { url: string | null }).url;
+    }, welderId);
+    await signOut(qa.page);
+    await qa.context.close();
+
+    const { page, context } = await newSession(browser);
+    await signIn(page, demo.welder.email);
+    const found: string[] = [];
+    for (const path of ['/my-qualifications', `/welders/${welderId}`, '/welders/not-a-welder']) {
+      await page.goto(path);
+      await settled(page);
+      found.push(...developerWordsIn(await visibleWords(page)).map((f) => `${path}: ${f}`));
+    }
+    await page.goto('/my-qualifications');
+    await page.getByRole('heading', { name: 'My qualifications' }).waitFor();
+    await page.getByRole('article').first().waitFor();
+    // Prose gives dates as "14 March 2026", never as 2026-03-14.
+    const article = await page.getByRole('article').first().innerText();
+    expect(article).toMatch(/\d{1,2} (January|February|March|April|May|June|July|August|September|October|November|December) \d{4}/);
+    expect(pageErrors(page)).toEqual([]);
+    await context.close();
+
+    if (token) {
+      const inspector = await newSession(browser);
+      await inspector.page.goto(new URL(token).pathname);
+      await inspector.page.getByRole('heading', { level: 1 }).waitFor();
+      await settled(inspector.page);
+      found.push(...developerWordsIn(await visibleWords(inspector.page)).map((f) => `verify: ${f}`));
+      await inspector.context.close();
+    }
+    const unknown = await newSession(browser);
+    await unknown.page.goto(`/verify/${'A'.repeat(43)}`);
+    await settled(unknown.page);
+    found.push(...developerWordsIn(await visibleWords(unknown.page)).map((f) => `unknown verify: ${f}`));
+    await unknown.context.close();
+
+    expect(found).toEqual([]);
+  });
+});
