@@ -43,23 +43,28 @@ async function settled(page: Page): Promise<void> {
 }
 
 describe('plain words on the welder’s and public pages', () => {
-  it('the welder’s own pages and the verify page show no developer words', async () => {
-    // The live verify link of the demo welder, as the QA manager's panel shows it.
+  let welderId = '';
+  let verifyUrl: string | null = null;
+
+  it('finds the demo welder and the live verify link (the QA manager’s view)', async () => {
     const qa = await newSession(browser);
     await signIn(qa.page, demo.qa.email);
-    const welderId = await qa.page.evaluate(async (stamp) => {
+    welderId = await qa.page.evaluate(async (stamp) => {
       const res = await fetch(`/api/welders?q=${encodeURIComponent(stamp)}`);
       const body = (await res.json()) as { items: { id: string; stamp: string }[] };
       return body.items.find((w) => w.stamp === stamp)?.id ?? '';
     }, demo.welder.stamp);
     expect(welderId).not.toBe('');
-    const token = await qa.page.evaluate(async (id) => {
+    verifyUrl = await qa.page.evaluate(async (id) => {
       const res = await fetch(`/api/welders/${id}/verify-token`);
       return ((await res.json()) as { url: string | null }).url;
     }, welderId);
     await signOut(qa.page);
     await qa.context.close();
+  });
 
+  it('the welder’s own pages show no developer words, and prose dates read "14 March 2026"', async () => {
+    expect(welderId).not.toBe('');
     const { page, context } = await newSession(browser);
     await signIn(page, demo.welder.email);
     const found: string[] = [];
@@ -69,28 +74,27 @@ describe('plain words on the welder’s and public pages', () => {
       found.push(...developerWordsIn(await visibleWords(page)).map((f) => `${path}: ${f}`));
     }
     await page.goto('/my-qualifications');
-    await page.getByRole('heading', { name: 'My qualifications' }).waitFor();
     await page.getByRole('article').first().waitFor();
-    // Prose gives dates as "14 March 2026", never as 2026-03-14.
     const article = await page.getByRole('article').first().innerText();
     expect(article).toMatch(/\d{1,2} (January|February|March|April|May|June|July|August|September|October|November|December) \d{4}/);
+    expect(found).toEqual([]);
     expect(pageErrors(page)).toEqual([]);
     await context.close();
+  });
 
-    if (token) {
-      const inspector = await newSession(browser);
-      await inspector.page.goto(new URL(token).pathname);
+  it('the public verify page, for a live link and for an unknown one, shows no developer words', async () => {
+    const found: string[] = [];
+    const inspector = await newSession(browser);
+    if (verifyUrl) {
+      await inspector.page.goto(new URL(verifyUrl).pathname);
       await inspector.page.getByRole('heading', { level: 1 }).waitFor();
       await settled(inspector.page);
       found.push(...developerWordsIn(await visibleWords(inspector.page)).map((f) => `verify: ${f}`));
-      await inspector.context.close();
     }
-    const unknown = await newSession(browser);
-    await unknown.page.goto(`/verify/${'A'.repeat(43)}`);
-    await settled(unknown.page);
-    found.push(...developerWordsIn(await visibleWords(unknown.page)).map((f) => `unknown verify: ${f}`));
-    await unknown.context.close();
-
+    await inspector.page.goto(`/verify/${'A'.repeat(43)}`);
+    await settled(inspector.page);
+    found.push(...developerWordsIn(await visibleWords(inspector.page)).map((f) => `unknown verify: ${f}`));
+    await inspector.context.close();
     expect(found).toEqual([]);
   });
 });

@@ -44,43 +44,49 @@ async function downloadBoth(page: Page): Promise<void> {
 }
 
 describe('verify link and printed documents', () => {
-  it('never issues a link by downloading, names what a reissue kills, and the old link stops working', async () => {
-    const { page, context } = await newSession(browser);
+  let session: Awaited<ReturnType<typeof newSession>>;
+  let w: ListedWelder;
+  let first = '';
+
+  it('downloading the card and a WPQ issues no link: the panel still says none is active', async () => {
+    session = await newSession(browser);
+    const { page } = session;
     await signIn(page, demo.qa.email);
     // A welder of the demo with certified qualifications and no link yet (the seed issues one for PV-07 only).
     const list = await api<{ items: ListedWelder[] }>(page, '/api/welders?pageSize=200&sort=stamp');
-    let welder: ListedWelder | undefined;
-    for (const w of list.items.filter((x) => x.stamp !== demo.welder.stamp && (x.qualifications?.length ?? 0) > 0)) {
-      const status = await api<{ active: boolean }>(page, `/api/welders/${w.id}/verify-token`);
-      if (!status.active) {
-        welder = w;
+    let found: ListedWelder | undefined;
+    for (const x of list.items.filter((y) => y.stamp !== demo.welder.stamp && (y.qualifications?.length ?? 0) > 0)) {
+      if (!(await api<{ active: boolean }>(page, `/api/welders/${x.id}/verify-token`)).active) {
+        found = x;
         break;
       }
     }
-    expect(welder, 'a demo welder with qualifications and no verify link').toBeDefined();
-    const w = welder!;
+    expect(found, 'a demo welder with qualifications and no verify link').toBeDefined();
+    w = found!;
     await page.goto(`/welders/${w.id}`);
     expect(await panelState(page)).toBe('false');
     await page.getByText('a wallet card or WPQ downloaded now prints without a QR code').waitFor();
-
-    // Downloading the card and a WPQ leaves the link as it was: none.
     await downloadBoth(page);
     await page.reload();
     expect(await panelState(page)).toBe('false');
     expect((await api<{ active: boolean }>(page, `/api/welders/${w.id}/verify-token`)).active).toBe(false);
+  });
 
-    // Issued visibly; the panel shows the link in force, and it survives downloads and reloads.
+  it('issues the link visibly; the panel shows the same link after downloads and a reload', async () => {
+    const { page } = session;
     await page.getByRole('button', { name: 'Issue verify link' }).click();
     await page.getByRole('dialog', { name: /verify link/ }).getByRole('button', { name: 'Issue link' }).click();
     await page.getByRole('dialog').waitFor({ state: 'hidden' });
-    const first = (await page.getByTestId('verify-url').getAttribute('href')) ?? '';
+    first = (await page.getByTestId('verify-url').getAttribute('href')) ?? '';
     expect(first).toMatch(/\/verify\/[A-Za-z0-9_-]{43}$/);
     await downloadBoth(page);
     await page.reload();
     expect(await panelState(page)).toBe('true');
     expect(await page.getByTestId('verify-url').getAttribute('href')).toBe(first);
+  });
 
-    // Reissuing warns first and names the card and each WPQ record whose printed QR code stops working.
+  it('warns before a reissue, naming the card and each WPQ record it kills; the old link then reads no longer valid', async () => {
+    const { page, context } = session;
     await page.getByRole('button', { name: 'Reissue verify link' }).click();
     const dialog = page.getByRole('dialog', { name: /Reissue .*verify link/ });
     const killed = await dialog.getByTestId('verify-killed-documents').getByRole('listitem').allTextContents();
@@ -89,16 +95,13 @@ describe('verify link and printed documents', () => {
     expect(killed.slice(1).every((d) => d.startsWith('the WPQ record'))).toBe(true);
     await dialog.getByRole('button', { name: 'Reissue link' }).click();
     await dialog.waitFor({ state: 'hidden' });
-    const second = page.getByTestId('verify-url');
-    await expect.poll(async () => second.getAttribute('href')).not.toBe(first);
+    await expect.poll(async () => page.getByTestId('verify-url').getAttribute('href')).not.toBe(first);
+    expect(pageErrors(page).join('\n')).toBe('');
+    await context.close();
 
-    // An inspector scanning a card printed before the reissue is told it is no longer valid.
     const inspector = await newSession(browser);
     await inspector.page.goto(new URL(first).pathname);
     await inspector.page.getByText(/no longer valid/i).first().waitFor();
     await inspector.context.close();
-
-    expect(pageErrors(page).join('\n')).toBe('');
-    await context.close();
   });
 });
