@@ -69,6 +69,7 @@ export {
 
 // the whole examination of a coupon
 export { evaluateCoupon } from './examination/evaluate-coupon.js';
+export { couponPerProcess } from './examination/combination.js';
 export {
   RETEST_RULES,
   failedKindOf,

@@ -2,7 +2,8 @@
 // computes it. The walk reproduces the rules package's continuityStatus (TRADE.md §6, §9) with window
 // functions. Evidence per code (DEVELOPERS.md "What counts as evidence"): a certified passing coupon of
 // the pair's own code is a test; any other passing coupon of the process (another code, or not yet
-// certified) and every logged use from any shop are use. In date order, a test before a use on the same
+// certified) and every logged use from any shop are use. A combination coupon (QW-306) is evidence for each
+// of its processes (coupons.processes). In date order, a test before a use on the same
 // day; a use counts while it comes before the lapse date computed from the previous evidence; once a gap
 // reaches the lapse date every later use is ignored (and flagged) until the next test, which renews the
 // pair. Revocation is applied inside the walk: when every qualification of the pair in force (not
@@ -40,7 +41,7 @@ function evidenceInLifeSql(cut: (col: string) => string, entries: boolean): stri
   return `
     SELECT p.pair_no, p.code, p.qualified_on, c.tested_on AS d, ${testOrUse} AS k, NULL::uuid AS entry_id
       FROM pairs p
-      JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept'
+      JOIN coupons c ON c.welder_id = p.welder_id AND p.process = ANY (c.processes) AND c.result = 'accept'
                     AND ${inLife('c.tested_on')} ${cut('c.tested_on')}
     UNION ALL
     SELECT p.pair_no, p.code, p.qualified_on, e.used_on, 1, ${entries ? 'e.id' : 'NULL::uuid'}
@@ -64,7 +65,7 @@ function evidenceOutsideLifeSql(cut: (col: string) => string): string {
   return `
     SELECT p.pair_no, c.tested_on AS d, ${testOrUse} AS k, NULL::uuid AS entry_id
       FROM pairs p
-      JOIN coupons c ON c.welder_id = p.welder_id AND c.process = p.process AND c.result = 'accept'
+      JOIN coupons c ON c.welder_id = p.welder_id AND p.process = ANY (c.processes) AND c.result = 'accept'
                     AND (c.tested_on < p.qualified_on OR c.tested_on >= p.revoked_on) ${cut('c.tested_on')}
     UNION ALL ${entries('pairs', 'e.used_on < p.qualified_on')}
     UNION ALL ${entries('(SELECT * FROM pairs WHERE revoked_on IS NOT NULL)', 'e.used_on >= p.revoked_on')}`;

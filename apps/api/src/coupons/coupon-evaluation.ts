@@ -261,11 +261,14 @@ export function attachmentRefs(input: CouponFields): Array<{ field: string; id: 
 export function procedureProblem(
   p: { number: string; revision: string; code: string; processes: string[]; status: string },
   coupon: { code: Coupon['code']; process: string },
+  layers: ReadonlyArray<{ process: string }> = [],
 ): string | null {
   const name = `WPS ${p.number} rev ${p.revision}`;
   if (p.status !== 'active') return `${name} is superseded`;
   if (p.code !== coupon.code)
     return `${name} is for ${CODE_NAMES[p.code as Coupon['code']] ?? p.code}, not ${CODE_NAMES[coupon.code]}`;
-  if (!p.processes.includes(coupon.process)) return `${name} does not cover ${coupon.process}`;
+  // a combination coupon is welded to one WPS that covers every process in it (QW-306)
+  const missing = [coupon.process, ...layers.map((l) => l.process)].filter((x, i, all) => !p.processes.includes(x) && all.indexOf(x) === i);
+  if (missing.length > 0) return `${name} does not cover ${missing.join(' and ')}`;
   return null;
 }

@@ -64,7 +64,7 @@ function couponsQuery(db: EntityManager, actor: Actor) {
     .addSelect('c.rules_version', 'rulesVersion')
     // a combination coupon certifies one qualification per process: the first certified stands for them
     .addSelect(
-      `(SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.created_at, q.id LIMIT 1)`,
+      `(SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.process = c.process DESC, q.created_at, q.id LIMIT 1)`,
       'qualificationId',
     )
     .addSelect('c.retest_of_id', 'retestOfId')
@@ -108,6 +108,10 @@ export interface LockedCoupon {
   qualificationId: string | null;
   retestOfId: string | null;
   retestBasis: string | null;
+  /** Every process the coupon was welded with (a combination coupon's layers too). */
+  processes: string[];
+  /** A combination coupon's processes with the weld metal each deposited (QW-306), or null. */
+  layers: Array<Record<string, unknown>> | null;
   snapshot: Record<string, unknown>;
 }
 
@@ -120,8 +124,9 @@ export async function lockCoupon(
   const rows: LockedCoupon[] = await db.query(
     `SELECT c.id, c.welder_id AS "welderId", to_char(c.tested_on, 'YYYY-MM-DD') AS "testedOn", c.code, c.process,
             c.coupon, c.result, c.version, c.criteria_id AS "criteriaId",
-            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.created_at, q.id LIMIT 1) AS "qualificationId",
-            c.retest_of_id AS "retestOfId", c.examination->'retest'->>'basis' AS "retestBasis",
+            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.process = c.process DESC, q.created_at, q.id LIMIT 1) AS "qualificationId",
+            c.retest_of_id AS "retestOfId", c.examination->'retest'->>'basis' AS "retestBasis", c.processes,
+            c.examination->'layers' AS layers,
             json_build_object('shopId', c.shop_id, 'procedureId', c.procedure_id,
               'testedOn', to_char(c.tested_on, 'YYYY-MM-DD'), 'coupon', c.coupon, 'pipe', c.pipe,
               'pNumbers', c.p_numbers, 'examiner', c.examiner, 'labReportNumber', c.lab_report_number,
@@ -204,7 +209,7 @@ export async function welderOfOrganization(db: EntityManager, organizationId: st
 /** Passing test dates of each welder and process: the continuity evidence of their qualifications. */
 export const passingTestDatesSql = (welder: string, process: string) =>
   `ARRAY(SELECT to_char(e.tested_on, 'YYYY-MM-DD') FROM coupons e
-          WHERE e.welder_id = ${welder} AND e.process = ${process} AND e.result = 'accept' ORDER BY e.tested_on)`;
+          WHERE e.welder_id = ${welder} AND ${process} = ANY (e.processes) AND e.result = 'accept' ORDER BY e.tested_on)`;
 
 /** A rejected coupon of the welder, for a retest to name, with what the retest must match. */
 export async function failedCouponOf(db: EntityManager, organizationId: string, welderId: string, id: string) {
@@ -242,7 +247,7 @@ export async function retestsOf(db: EntityManager, failedIds: string[]): Promise
   return db.query<RetestRow[]>(
     `SELECT c.id, c.retest_of_id AS "retestOfId", c.code, c.examination->'retest'->>'basis' AS basis, c.result,
             to_char(c.tested_on, 'YYYY-MM-DD') AS "testedOn",
-            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.created_at, q.id LIMIT 1) AS "qualificationId"
+            (SELECT q.id FROM qualifications q WHERE q.coupon_id = c.id ORDER BY q.process = c.process DESC, q.created_at, q.id LIMIT 1) AS "qualificationId"
        FROM coupons c
       WHERE c.retest_of_id = ANY($1::uuid[])
       ORDER BY c.tested_on, c.created_at, c.id`,

@@ -23,8 +23,8 @@ import { companyToday } from '../settings/settings.repository.js';
 import { companyShops } from '../shops/shops.service.js';
 import { checkAttachments, uploadsById } from '../uploads/uploads.service.js';
 import { procedureForCoupon } from '../procedures/procedures.repository.js';
-import { attachmentRefs, evaluateCoupon, procedureProblem, type CouponFields } from './coupon-evaluation.js';
-import { refreshContinuityStates } from '../continuity/continuity-state.repository.js';
+import { attachmentRefs, evaluateCoupon, procedureProblem, type CouponFields, type StoredExamination } from './coupon-evaluation.js';
+import { refreshContinuityPairs } from '../continuity/continuity-state.repository.js';
 import * as repo from './coupons.repository.js';
 import { retestSetOf, type RetestSet } from './retest-sets.js';
 import { CODE_NAMES } from '../documents/document-format.js';
@@ -172,7 +172,7 @@ async function prepare(
   if (!shop) fields.shopId = 'Choose a shop of your company';
   const procedure = await procedureForCoupon(db, actor.organizationId, input.procedureId);
   const problem = procedure
-    ? procedureProblem(procedure, input.coupon)
+    ? procedureProblem(procedure, input.coupon, input.examination.layers ?? [])
     : 'Choose a WPS from your company’s register';
   if (problem) fields.procedureId = problem;
   if (input.testedOn > (await companyToday(db, actor, deps.clock))) fields.testedOn = 'The test date cannot be in the future';
@@ -209,6 +209,11 @@ async function prepare(
   };
 }
 
+/** Every process a coupon was welded with (a combination coupon's layers too, QW-306): it is evidence for each. */
+const processesOf = (w: repo.CouponWrite): string[] => [
+  ...new Set([w.process, ...((w.examination as StoredExamination).layers ?? []).map((l) => l.process)]),
+];
+
 /** The audit snapshot of a coupon: the same JSON shape the database hands back. */
 const snapshot = (w: repo.CouponWrite): Record<string, unknown> =>
   JSON.parse(JSON.stringify(w)) as Record<string, unknown>;
@@ -229,7 +234,7 @@ export async function createCoupon(deps: AppDeps, actor: Actor, input: CreateInp
     });
     await repo.replaceCouponUploads(db, couponId, uploadIds);
     // A passing coupon is continuity evidence for its process on its date (every code the welder holds).
-    await recordLapseMoves(db, await refreshContinuityStates(db, welderId, write.process), deps.clock);
+    await recordLapseMoves(db, await refreshContinuityPairs(db, processesOf(write).map((process) => ({ welderId, process }))), deps.clock);
     await recordAudit(db, actor, now, {
       action: 'coupon.created',
       entityType: 'coupon',
@@ -261,9 +266,9 @@ export async function updateCoupon(
     const now = deps.clock.now();
     if (!(await repo.updateCoupon(db, id, current.version, write, now))) throw AppError.conflict(STALE);
     await repo.replaceCouponUploads(db, id, uploadIds);
-    await recordLapseMoves(db, await refreshContinuityStates(db, current.welderId, write.process), deps.clock);
-    if (current.process !== write.process)
-      await recordLapseMoves(db, await refreshContinuityStates(db, current.welderId, current.process), deps.clock);
+    // the processes the coupon is evidence for, before and after the edit
+    const moved = [...new Set([...processesOf(write), ...current.processes])];
+    await recordLapseMoves(db, await refreshContinuityPairs(db, moved.map((process) => ({ welderId: current.welderId, process }))), deps.clock);
     await recordAudit(db, actor, now, {
       action: 'coupon.updated',
       entityType: 'coupon',

@@ -4,6 +4,7 @@ import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
 import {
+  couponPerProcess,
   daysBetween,
   qualifiedRanges,
   RULES_VERSION,
@@ -152,6 +153,10 @@ export async function certifyCoupon(
       if (input.certifiedOn > todayIn(await companyTimeZone(db, actor.organizationId), now))
         throw AppError.validation({ certifiedOn: 'The certification date cannot be in the future' });
 
+      // A combination coupon qualifies each process with the weld metal it deposited (QW-306): one
+      // qualification per process, each with its own ranges, certified together.
+      const c = coupon.coupon as Coupon;
+      const perProcess = couponPerProcess(c, coupon.layers as Parameters<typeof couponPerProcess>[1]);
       let supersedes: Awaited<ReturnType<typeof repo.lockQualification>> = null;
       if (input.supersedesId) {
         supersedes = await repo.lockQualification(db, actor.organizationId, input.supersedesId);
@@ -159,7 +164,7 @@ export async function certifyCoupon(
           ? 'No such qualification'
           : supersedes.welderId !== coupon.welderId ||
               supersedes.code !== coupon.code ||
-              supersedes.process !== coupon.process
+              !perProcess.some((x) => x.process === supersedes!.process)
             ? 'Only a qualification of the same welder, code and process can be superseded'
             : supersedes.supersededById
               ? 'That qualification is already superseded'
@@ -167,59 +172,65 @@ export async function certifyCoupon(
         if (problem) throw AppError.validation({ supersedesId: problem });
       }
 
-      const c = coupon.coupon as Coupon;
-      const ranges: QualifiedRanges = qualifiedRanges(c);
       const certifiedByName = await repo.userName(db, actor.id);
-      const qualificationId = await repo.insertQualification(db, {
-        organizationId: actor.organizationId,
-        welderId: coupon.welderId,
-        couponId: coupon.id,
-        code: coupon.code,
-        process: coupon.process,
-        transferMode: c.transferMode ?? null,
-        progression: c.progression ?? null,
-        ranges,
-        certifiedOn: input.certifiedOn,
-        certifiedBy: actor.id,
-        certifiedByName,
-        rulesVersion: RULES_VERSION,
-        supersedesId: supersedes?.id ?? null,
-        at: now,
-      });
-      await recordAudit(db, actor, now, {
-        action: 'qualification.certified',
-        entityType: 'qualification',
-        entityId: qualificationId,
-        before: null,
-        after: {
-          couponId: coupon.id,
+      const ids: Array<{ id: string; process: string }> = [];
+      for (const one of perProcess) {
+        const ranges: QualifiedRanges = qualifiedRanges(one);
+        const replaces = supersedes?.process === one.process ? supersedes : null;
+        const qualificationId = await repo.insertQualification(db, {
+          organizationId: actor.organizationId,
           welderId: coupon.welderId,
+          couponId: coupon.id,
           code: coupon.code,
-          process: coupon.process,
-          certifiedOn: input.certifiedOn,
-          certifiedBy: certifiedByName,
-          rulesVersion: RULES_VERSION,
+          process: one.process,
+          transferMode: one.transferMode ?? null,
+          progression: one.progression ?? null,
           ranges,
-          supersedesId: supersedes?.id ?? null,
-        },
-      });
-      const moves = await refreshContinuityState(db, coupon.welderId, coupon.process, coupon.code);
-      await recordLapseMoves(db, moves, deps.clock);
-      if (supersedes) {
-        await repo.markSuperseded(db, supersedes.id, qualificationId, now);
-        await recordAudit(db, actor, now, {
-          action: 'qualification.superseded',
-          entityType: 'qualification',
-          entityId: supersedes.id,
-          before: { supersededById: null },
-          after: { supersededById: qualificationId },
+          certifiedOn: input.certifiedOn,
+          certifiedBy: actor.id,
+          certifiedByName,
+          rulesVersion: RULES_VERSION,
+          supersedesId: replaces?.id ?? null,
+          at: now,
         });
+        ids.push({ id: qualificationId, process: one.process });
+        await recordAudit(db, actor, now, {
+          action: 'qualification.certified',
+          entityType: 'qualification',
+          entityId: qualificationId,
+          before: null,
+          after: {
+            couponId: coupon.id,
+            welderId: coupon.welderId,
+            code: coupon.code,
+            process: one.process,
+            certifiedOn: input.certifiedOn,
+            certifiedBy: certifiedByName,
+            rulesVersion: RULES_VERSION,
+            ranges,
+            supersedesId: replaces?.id ?? null,
+          },
+        });
+        const moves = await refreshContinuityState(db, coupon.welderId, one.process, coupon.code);
+        await recordLapseMoves(db, moves, deps.clock);
+        if (replaces) {
+          await repo.markSuperseded(db, replaces.id, qualificationId, now);
+          await recordAudit(db, actor, now, {
+            action: 'qualification.superseded',
+            entityType: 'qualification',
+            entityId: replaces.id,
+            before: { supersededById: null },
+            after: { supersededById: qualificationId },
+          });
+        }
       }
+      // the answer is the qualification of the coupon's own process (the others are listed with the welder)
+      const qualificationId = (ids.find((x) => x.process === coupon.process) ?? ids[0])!.id;
       return qualificationId;
     })
     .catch((err: unknown) => {
       // Two certifications of one coupon at the same moment: the unique index decides.
-      if (isUniqueViolation(err, 'qualifications_coupon_key'))
+      if (isUniqueViolation(err, 'qualifications_coupon_process_key'))
         throw AppError.conflict('This coupon is already certified');
       throw err;
     });

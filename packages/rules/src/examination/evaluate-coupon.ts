@@ -41,6 +41,7 @@ import {
   type PartVerdict,
   type Reason,
 } from './judges.js';
+import { couponPerProcess } from './combination.js';
 import { RETEST_RULES, retestVerdict, type RetestSetVerdict } from './retests.js';
 
 type Parsed = ReturnType<typeof parse>;
@@ -214,26 +215,20 @@ function nickBreakPart(p: Parsed): EvaluationPart {
 function combinationPart(p: Parsed, layers: NonNullable<Parsed['layers']>): EvaluationPart {
   const c = p.coupon;
   const clause = 'QW-306';
-  const items = layers.map((l, i) =>
+  // each process with the weld metal it deposited, as certification issues its qualification
+  const items = couponPerProcess(c, layers).map((one, i) =>
     under(`layers.${i}`, () => {
-      const r = qualifiedRanges({
-        ...c,
-        process: l.process,
-        depositedThickness: l.depositedThickness,
-        ...(l.transferMode ? { transferMode: l.transferMode } : { transferMode: undefined }),
-        ...(l.fNumber !== undefined ? { fNumber: l.fNumber } : {}),
-        ...(l.layers !== undefined ? { layers: l.layers } : {}),
-        ...(l.withoutFiller !== undefined ? { withoutFiller: l.withoutFiller } : {}),
-      });
+      const r = qualifiedRanges(one);
+      const deposited = one.depositedThickness ?? one.thickness;
       const max = r.thickness.max ? `up to ${formatLength(r.thickness.max)}` : 'with no upper limit';
       const pending: CouponResult = 'accept'; // set to the coupon's verdict once every part is judged
       return {
-        kind: l.process,
+        kind: one.process,
         result: pending,
         reasons: [
           {
             clause,
-            message: `${l.process} deposited ${formatLength(l.depositedThickness)}: qualifies deposited weld metal ${max} with ${l.process} (${r.limits.find((x) => x.variable === 'thickness')?.clause ?? ''}).`,
+            message: `${one.process} deposited ${formatLength(deposited)}: qualifies deposited weld metal ${max} with ${one.process} (${r.limits.find((x) => x.variable === 'thickness')?.clause ?? ''}).`,
           },
         ],
       };

@@ -50,7 +50,9 @@ function CertifyDialog({ coupon, open, onClose }: { coupon: CouponRecord; open: 
   const certify = useCertifyCoupon();
   // A qualification of the same welder, code and process that this one corrects leaves the current lists.
   const earlier = useQuery(qualificationQueries.list({ welderId: coupon.welder.id }));
-  const correctable = (earlier.data?.items ?? []).filter((q) => q.code === coupon.coupon.code && q.process === coupon.coupon.process && !q.supersededById);
+  // a combination coupon (QW-306) certifies every process it was welded with
+  const processes = [...new Set([coupon.coupon.process, ...(coupon.examination.layers ?? []).map((l) => l.process)])];
+  const correctable = (earlier.data?.items ?? []).filter((q) => q.code === coupon.coupon.code && processes.includes(q.process) && !q.supersededById);
   const form = useForm<z.input<typeof certifyForm>>({ resolver: zodResolver(certifyForm), defaultValues: { certifiedOn: todayIso(), supersedesId: '' } });
   const { errors } = form.formState;
   const submit = form.handleSubmit(({ certifiedOn, supersedesId }) =>
@@ -72,8 +74,8 @@ function CertifyDialog({ coupon, open, onClose }: { coupon: CouponRecord; open: 
     <Dialog
       open={open}
       onClose={onClose}
-      title={`Certify ${coupon.welder.stamp}'s ${codeNames[coupon.coupon.code]} ${coupon.coupon.process} qualification?`}
-      description={`You certify, as ${me.name}, that ${coupon.welder.name} passed this test on ${coupon.testedOn}. The qualification record (WPQ) is issued with the ranges Beadroll computed; it is never deleted, only superseded or revoked.`}
+      title={`Certify ${coupon.welder.stamp}'s ${codeNames[coupon.coupon.code]} ${processes.join(' and ')} qualification${processes.length > 1 ? 's' : ''}?`}
+      description={`You certify, as ${me.name}, that ${coupon.welder.name} passed this test on ${coupon.testedOn}. ${processes.length > 1 ? `A combination coupon qualifies each process with the weld metal it deposited (QW-306): one qualification record (WPQ) is issued per process, each with its own ranges` : 'The qualification record (WPQ) is issued with the ranges Beadroll computed'}; it is never deleted, only superseded or revoked.`}
     >
       <form onSubmit={(e) => void submit(e)} noValidate>
         <TextField label="Certified on" type="date" max={todayIso()} min={coupon.testedOn} error={errors.certifiedOn?.message} {...form.register('certifiedOn')} />
@@ -88,7 +90,7 @@ function CertifyDialog({ coupon, open, onClose }: { coupon: CouponRecord; open: 
             <option value="">No, this is a qualification of its own</option>
             {correctable.map((q) => (
               <option key={q.id} value={q.id}>
-                Supersede the one certified on {q.certifiedOn} ({q.status.state})
+                Supersede the {q.process} one certified on {q.certifiedOn} ({q.status.state})
               </option>
             ))}
           </SelectField>
