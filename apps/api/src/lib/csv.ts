@@ -11,14 +11,14 @@ export type CsvCell = string | number | boolean | null | undefined;
 const OPTIONS = { escapeFormulae: true, newline: '\r\n', header: false } as const;
 
 /** One line of a CSV, ending in CRLF. */
+const blank = (cells: readonly CsvCell[]) => cells.map((c) => (c === null || c === undefined ? '' : c));
+
 export function csvLine(cells: readonly CsvCell[]): string {
-  return `${Papa.unparse([cells.map((c) => (c === null || c === undefined ? '' : c))], OPTIONS)}\r\n`;
+  return `${Papa.unparse([blank(cells)], OPTIONS)}\r\n`;
 }
 
-/** A whole CSV: the header, then each row. */
+/** A whole CSV: the header, then each row (one pass of the writer). */
 export function toCsv(header: readonly string[], rows: Iterable<readonly CsvCell[]>): string {
-  let out = csvLine(header);
-  for (const r of rows) out += csvLine(r);
-  return out;
+  return `${Papa.unparse([blank(header), ...[...rows].map(blank)], OPTIONS)}\r\n`;
 }
 
