@@ -10,7 +10,7 @@ import { cpus, loadavg } from 'node:os';
 import pg from 'pg';
 import { addDays, qualifiedRanges, type CouponInput } from '@beadroll/rules';
 import { loadConfig } from '../config.js';
-import { createDataSource } from '../db/data-source.js';
+import { createDataSource, runMigrations } from '../db/data-source.js';
 import { createLogger } from '../lib/logger.js';
 import { createMailer } from '../lib/mailer.js';
 import { createStorage } from '../lib/storage.js';
@@ -48,6 +48,8 @@ if ((await benchWelders()) < 20_000) {
 const config = { ...base, db: { ...base.db, database: BENCH_DB } };
 const ds = createDataSource(config.db, { poolSize: 4 });
 await ds.initialize();
+// A bench company seeded before the latest migrations gets them (indexes the finder reads).
+await runMigrations(ds);
 
 // Eight kinds of coupon per process: pipe and plate, positions, thicknesses, backing, F-No., progression.
 function kinds(code: 'asme-ix' | 'aws-d1.1', process: 'SMAW' | 'GTAW' | 'FCAW'): CouponInput[] {
