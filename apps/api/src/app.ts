@@ -25,6 +25,7 @@ import { proceduresRouter } from './procedures/procedures.router.js';
 import { couponsRouter } from './coupons/coupons.router.js';
 import { qualificationsRouter, welderCardRouter } from './qualifications/qualifications.router.js';
 import { verifyRouter, verifyTokenRouter } from './verify/verify.router.js';
+import { weldsRouter } from './welds/welds.router.js';
 import { continuityRouter, gridSaveBodyParser, welderTimelineRouter } from './continuity/continuity.router.js';
 import { settingsRouter } from './settings/settings.router.js';
 import { lapseWatchRouter } from './lapse-watch/lapse-watch.router.js';
@@ -127,6 +128,7 @@ export function createApp(opts: CreateAppOptions): Express {
   api.use('/crew-finder', crewFinderRouter(deps, auth.requireAuth));
   api.use('/paper-records', paperRecordsRouter(deps, auth.requireAuth));
   api.use('/reports', reportsRouter(deps, auth.requireAuth));
+  api.use('/welds', weldsRouter(deps, auth.requireAuth));
   api.use(openApiRouter());
   if (!config.isProduction) api.use('/dev/mail', devMailRouter(deps, auth.requireAuth));
   api.use(apiNotFound);

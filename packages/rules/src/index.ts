@@ -16,6 +16,7 @@ export * from './schemas/sessions.js';
 export * from './schemas/imports.js';
 export * from './schemas/reports.js';
 export * from './schemas/qualified-on.js';
+export * from './schemas/welds.js';
 export { RulesInputError } from './validation/rules-input-error.js';
 export { fieldsOf } from './validation/parse-input.js';
 export { RULES_VERSION } from './version.js';

@@ -40,7 +40,8 @@ type Action =
   | { t: 'delete'; i: number }
   | { t: 'revoke'; i: number; on: string }
   | { t: 'review'; i: number }
-  | { t: 'transfer'; shop: number };
+  | { t: 'transfer'; shop: number }
+  | { t: 'weld'; process: string; shop: number; on: string };
 
 const arbAction: fc.Arbitrary<Action> = fc.oneof(
   { weight: 3, arbitrary: fc.record({ t: fc.constant('qualify' as const), process: arbProcess, code: arbCode, on: arbDay }) },
@@ -53,6 +54,8 @@ const arbAction: fc.Arbitrary<Action> = fc.oneof(
   { weight: 1, arbitrary: fc.record({ t: fc.constant('revoke' as const), i: fc.nat(10), on: fc.integer({ min: 0, max: 60 }).map(String) }) },
   { weight: 1, arbitrary: fc.record({ t: fc.constant('review' as const), i: fc.nat(40) }) },
   { weight: 1, arbitrary: fc.record({ t: fc.constant('transfer' as const), shop: fc.nat(1) }) },
+  // A production weld: use of its process on the day welded, once per day with the logged use (issue 12).
+  { weight: 4, arbitrary: fc.record({ t: fc.constant('weld' as const), process: arbProcess, shop: fc.nat(1), on: arbDay }) },
 );
 
 interface CouponM { id: string; process: string; code: CodeId; on: string; pass: boolean; qualId: string | null; revokedOn: string | null }
@@ -79,6 +82,7 @@ describe('continuity property: stored = recompute = continuityStatus after every
     const welder = await makeWelder(ds, org, shops[0]!, { stamp: `P-${++n}-${Math.random().toString(36).slice(2, 6).toUpperCase()}` });
     const coupons: CouponM[] = [];
     const entries: EntryM[] = [];
+    const welds: { process: string; on: string }[] = [];
     const tx = <T>(f: (db: EntityManager) => Promise<T>) => ds.transaction(f);
 
     const insertCoupon = async (process: string, code: CodeId, on: string, pass: boolean) => {
@@ -185,6 +189,21 @@ describe('continuity property: stored = recompute = continuityStatus after every
           e.review = 'reviewed';
           continue;
         }
+        case 'weld': {
+          const [w] = await ds.query<{ id: string }[]>(
+            `INSERT INTO welds (organization_id, shop_id, job_reference, weld_number, welded_on, joint, checked_at, rules_version)
+             VALUES ($1, $2, 'J-P', gen_random_uuid()::text, $3, '{}', now(), 'test') RETURNING id`,
+            [org.id, shops[a.shop]!.id, a.on],
+          );
+          await ds.query(
+            `INSERT INTO weld_passes (weld_id, organization_id, welder_id, process, layer, welded_on, qualified, position)
+             VALUES ($1, $2, $3, $4, 'all', $5, true, 0)`,
+            [w!.id, org.id, welder.id, a.process, a.on],
+          );
+          welds.push({ process: a.process, on: a.on });
+          process = a.process;
+          break;
+        }
         case 'transfer': {
           // Evidence from every shop counts: moving the welder's home shop changes nothing.
           await ds.query(`UPDATE welders SET home_shop_id = $2 WHERE id = $1`, [welder.id, shops[a.shop]!.id]);
@@ -193,11 +212,11 @@ describe('continuity property: stored = recompute = continuityStatus after every
         }
       }
       if (process) await tx((db) => refreshContinuityPairs(db, [{ welderId: welder.id, process: process }]));
-      await check(welder.id, coupons, entries, a);
+      await check(welder.id, coupons, entries, welds, a);
     }
   }
 
-  async function check(welderId: string, coupons: CouponM[], entries: EntryM[], last: Action) {
+  async function check(welderId: string, coupons: CouponM[], entries: EntryM[], welds: { process: string; on: string }[], last: Action) {
     const ds = api.ds;
     const key = (s: { process: string; code: string }) => `${s.process}:${s.code}`;
     const stored = new Map((await storedStates(ds.manager, { organizationId: org.id, welderId })).map((s) => [key(s), s]));
@@ -222,6 +241,11 @@ describe('continuity property: stored = recompute = continuityStatus after every
       const evidence: ContinuityEvidence[] = [
         ...coupons.filter((c) => c.pass && c.process === p.process).map((c) => ({ date: c.on, kind: c.qualId && c.code === p.code ? ('test' as const) : ('use' as const) })),
         ...entries.filter((e) => e.process === p.process).map((e) => ({ date: e.on, kind: 'use' as const })),
+        // A weld is use on its day, once per day, and not again on a day a logged entry covers (one
+        // evidence model, no double counting: DEVELOPERS.md "What counts as evidence").
+        ...[...new Set(welds.filter((w) => w.process === p.process).map((w) => w.on))]
+          .filter((d) => !entries.some((e) => e.process === p.process && e.on === d))
+          .map((d) => ({ date: d, kind: 'use' as const })),
       ];
       const rules = continuityStatus({ code: p.code, qualifiedOn, evidence, asOf: '2099-12-31', ...(revokedOn ? { revokedOn } : {}) });
       const expected = {

@@ -221,6 +221,26 @@ describe('every mutation is audited', () => {
           .send({ decision: 'welds-examined', note: 'Audit: welds radiographed' });
       },
     ],
+    [
+      'post /welds',
+      async () => {
+        // A weld by a welder with no qualification: saved, flagged, and audited.
+        const res = await foreman.post('/api/welds').send({
+          shopId: world.shopA.id,
+          jobReference: 'J-AUDIT',
+          weldNumber: '1',
+          weldedOn: `${month}-01`,
+          joint: { form: 'plate', weld: 'groove', position: 'F', thickness: { value: 0.5, unit: 'in' }, backing: true },
+          passes: [{ welderId: world.weldersA[1]!.id, process: 'GTAW', layer: 'all' }],
+        });
+        ctx.weldId = (res.body as { id: string }).id;
+        return res;
+      },
+    ],
+    [
+      'post /welds/:id/disposition',
+      () => qa.post(`/api/welds/${ctx.weldId}/disposition`).send({ decision: 'requalify', reason: 'Audit: to requalify for GTAW' }),
+    ],
     ['patch /settings', () => qa.patch('/api/settings').send({ warnDays: [45, 14, 3] })],
     ['post /lapse-watch/runs', () => qa.post('/api/lapse-watch/runs').send({})],
     [

@@ -51,6 +51,16 @@ describe('authorization as data', () => {
     ids.set('procedures', { own: procA.id, 'out-of-scope': null, 'other-company': procB.id });
     agents.set('signed-out', null);
     agents.set('qa', await signIn(api.app, a.qa.email, TEST_PASSWORD));
+    // A production weld in the foreman's shop and one outside it (any welder may weld in any shop).
+    const weldIn = async (shopId: string, ds = api.ds, org = a.org.id) => {
+      const [w] = await ds.query<{ id: string }[]>(
+        `INSERT INTO welds (organization_id, shop_id, job_reference, weld_number, welded_on, joint, checked_at, rules_version)
+         VALUES ($1, $2, 'AUTHZ', gen_random_uuid()::text, current_date, '{}', now(), 'test') RETURNING id`,
+        [org, shopId],
+      );
+      return w!.id;
+    };
+    ids.set('welds', { own: await weldIn(a.shopA.id), 'out-of-scope': await weldIn(a.shopB.id), 'other-company': await weldIn(b.shop.id, api.ds, b.org.id) });
     agents.set('foreman', await signIn(api.app, a.foreman.email, TEST_PASSWORD));
     agents.set('welder', await signIn(api.app, a.welder.email, TEST_PASSWORD));
 
@@ -81,7 +91,8 @@ describe('authorization as data', () => {
     if (route.roles && !route.roles.includes(caller === 'qa' ? 'qa_manager' : caller)) return 403;
     if (target === 'other-company') return 404;
     // A foreman reads the welders and shops of their shops; a welder only their own welder file.
-    if (target === 'out-of-scope' && (kind === 'welders' || (kind === 'shops' && route.method === 'get')))
+    // Production welds: a foreman's are those of their shops.
+    if (target === 'out-of-scope' && (kind === 'welders' || kind === 'welds' || (kind === 'shops' && route.method === 'get')))
       return caller === 'qa' ? 'allowed' : 404;
     return 'allowed';
   }

@@ -47,8 +47,26 @@ function evidenceInLifeSql(cut: (col: string) => string, entries: boolean): stri
     SELECT p.pair_no, p.code, p.qualified_on, e.used_on, 1, ${entries ? 'e.id' : 'NULL::uuid'}
       FROM pairs p
       JOIN continuity_entries e ON e.welder_id = p.welder_id AND e.process = p.process
-                               AND ${inLife('e.used_on')} ${cut('e.used_on')}`;
+                               AND ${inLife('e.used_on')} ${cut('e.used_on')}
+    UNION ALL
+    SELECT p.pair_no, p.code, p.qualified_on, wp.welded_on, 1, ${entries ? 'wp.id' : 'NULL::uuid'}
+      FROM pairs p
+      JOIN weld_passes wp ON wp.welder_id = p.welder_id AND wp.process = p.process
+                         AND ${inLife('wp.welded_on')} ${cut('wp.welded_on')}
+     WHERE ${weldDayIsNew('wp')}`;
 }
+
+/**
+ * A production weld is use of its process on the day welded, once per (welder, process, day): a day a
+ * logged entry already covers, or another weld of the same day, adds nothing (one evidence model, no
+ * double counting). Both reached through the (welder_id, process, day) indexes.
+ */
+const weldDayIsNew = (wp: string) => `
+  NOT EXISTS (SELECT 1 FROM continuity_entries e2
+               WHERE e2.welder_id = ${wp}.welder_id AND e2.process = ${wp}.process AND e2.used_on = ${wp}.welded_on)
+  AND NOT EXISTS (SELECT 1 FROM weld_passes w2
+                   WHERE w2.welder_id = ${wp}.welder_id AND w2.process = ${wp}.process
+                     AND w2.welded_on = ${wp}.welded_on AND w2.id < ${wp}.id)`;
 
 /**
  * The evidence outside the pair's life, which counts for nothing (logged use there is flagged). Rare, so
@@ -68,7 +86,13 @@ function evidenceOutsideLifeSql(cut: (col: string) => string): string {
       JOIN coupons c ON c.welder_id = p.welder_id AND p.process = ANY (c.processes) AND c.result = 'accept'
                     AND (c.tested_on < p.qualified_on OR c.tested_on >= p.revoked_on) ${cut('c.tested_on')}
     UNION ALL ${entries('pairs', 'e.used_on < p.qualified_on')}
-    UNION ALL ${entries('(SELECT * FROM pairs WHERE revoked_on IS NOT NULL)', 'e.used_on >= p.revoked_on')}`;
+    UNION ALL ${entries('(SELECT * FROM pairs WHERE revoked_on IS NOT NULL)', 'e.used_on >= p.revoked_on')}
+    UNION ALL
+    SELECT p.pair_no, wp.welded_on, 1, wp.id
+      FROM pairs p
+      JOIN weld_passes wp ON wp.welder_id = p.welder_id AND wp.process = p.process
+                         AND (wp.welded_on < p.qualified_on OR wp.welded_on >= p.revoked_on) ${cut('wp.welded_on')}
+     WHERE ${weldDayIsNew('wp')}`;
 }
 
 interface WalkOptions {

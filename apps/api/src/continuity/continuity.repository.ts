@@ -263,7 +263,13 @@ export async function welderHistory(db: EntityManager, welderId: string) {
        FROM qualifications WHERE welder_id = $1`,
     [welderId],
   );
-  return { entries, qualifications };
+  // Production welds are use of their process too (the walk carries each weld pass's id).
+  const welds = await db.query<{ id: string; shop: string; jobReference: string; weldNumber: string; qualified: boolean }[]>(
+    `SELECT p.id, s.name AS shop, w.job_reference AS "jobReference", w.weld_number AS "weldNumber", p.qualified
+       FROM weld_passes p JOIN welds w ON w.id = p.weld_id JOIN shops s ON s.id = w.shop_id WHERE p.welder_id = $1`,
+    [welderId],
+  );
+  return { entries, qualifications, welds };
 }
 
 /**

@@ -14,6 +14,7 @@ import * as repo from './continuity.repository.js';
 import { lockPairs, refreshContinuityPairs, storedStates, welderWalk } from './continuity-state.repository.js';
 import type { GridSaveInput } from './continuity.schema.js';
 import { companyToday } from '../settings/settings.repository.js';
+import { recheckWelds } from '../welds/welds.service.js';
 
 const firstDay = (month: string) => `${month}-01`;
 /** Today in the company's own time zone (a foreman in Chicago at 19:00 is still in today's month). */
@@ -151,6 +152,21 @@ export async function saveGrid(deps: AppDeps, actor: Actor, input: GridSaveInput
     const written = await repo.upsertCells(db, { ...scope, loggedBy: actor.id, at: now }, input.cells);
     const removed = await repo.removeCells(db, scope, input.remove);
     await recordLapseMoves(db, await refreshContinuityPairs(db, keys), deps.clock);
+    // A removed or re-dated entry may have been what kept a welder in continuity for later welds.
+    const moved = [
+      ...removed,
+      ...written.flatMap((w) => {
+        const old = before.get(`${w.welderId}:${w.process}`);
+        return old && old.usedOn !== w.usedOn ? [old] : [];
+      }),
+    ];
+    await recheckWelds(
+      db,
+      actor,
+      now,
+      moved.map((r) => ({ welderId: r.welderId, process: r.process, from: r.usedOn })),
+      'continuity-entry.removed',
+    );
     const view = ({ id: _id, welderId: _w, version: _v, ...rest }: repo.EntrySnapshot) => rest;
     // Every change of the save audited, in one statement.
     await repo.insertEntryAudits(db, actor, now, [
@@ -275,6 +291,7 @@ export async function welderTimeline(deps: AppDeps, actor: Actor, welderId: stri
     repo.welderHistory(db, welder.id),
   ]);
   const entries = new Map(history.entries.map((e) => [e.id, e]));
+  const welds = new Map(history.welds.map((w) => [w.id, w]));
   return {
     processes: states.map((s) => {
       const events: { date: string; kind: EventKind; detail: string }[] = [];
@@ -292,7 +309,12 @@ export async function welderTimeline(deps: AppDeps, actor: Actor, welderId: stri
           continue;
         }
         const e = r.entryId ? entries.get(r.entryId) : undefined;
-        const where = e ? `${e.shop}, job ${e.jobReference}${e.note ? ` (${e.note})` : ''}` : '';
+        const weld = r.entryId && !e ? welds.get(r.entryId) : undefined;
+        const where = e
+          ? `${e.shop}, job ${e.jobReference}${e.note ? ` (${e.note})` : ''}`
+          : weld
+            ? `${weld.shop}, job ${weld.jobReference}, weld ${weld.weldNumber} (production weld)`
+            : '';
         events.push({
           date: r.date,
           kind: 'use',

@@ -250,7 +250,8 @@ function drawFacts(l: FlowLayout, facts: Array<[string, string]>): void {
 }
 
 /** A row of small-caps labels over values, for the identity block. */
-function drawFieldGrid(l: FlowLayout, fields: Array<[string, string]>, perRow: number): void {
+/** Labelled values in a grid, `perRow` to a row (the WPQ record's and the weld record's head). */
+export function drawFieldGrid(l: FlowLayout, fields: Array<[string, string]>, perRow: number): void {
   const w = l.width / perRow;
   for (let i = 0; i < fields.length; i += perRow) {
     const chunk = fields.slice(i, i + perRow);
@@ -271,20 +272,25 @@ function drawFieldGrid(l: FlowLayout, fields: Array<[string, string]>, perRow: n
 }
 
 function drawFirstHeader(l: FlowLayout, d: WpqDocumentData): void {
+  drawDocumentHeader(l, 'Welder performance qualification record', d.company.name, `Record ${d.qualification.number}`);
+}
+
+/** The first page's head of a Beadroll record: the mark, the title, the company and the record's reference. */
+export function drawDocumentHeader(l: FlowLayout, title: string, company: string, reference: string): void {
   const { doc } = l;
   const top = l.y;
   l.style({ size: 8, bold: true, color: ACCENT }).text('BEADROLL', l.left, top, {
     characterSpacing: 2,
     lineBreak: false,
   });
-  l.style({ size: 17, bold: true }).text('Welder performance qualification record', l.left, top + 12, {
+  l.style({ size: 17, bold: true }).text(title, l.left, top + 12, {
     width: l.width * 0.62,
   });
   const rightWidth = l.width * 0.36;
   const rx = l.right - rightWidth;
-  l.style({ size: 11, bold: true }).text(d.company.name, rx, top + 2, { width: rightWidth, align: 'right' });
+  l.style({ size: 11, bold: true }).text(company, rx, top + 2, { width: rightWidth, align: 'right' });
   const after = doc.y;
-  l.style({ size: 8.5, color: MUTED }).text(`Record ${d.qualification.number}`, rx, after + 1, {
+  l.style({ size: 8.5, color: MUTED }).text(reference, rx, after + 1, {
     width: rightWidth,
     align: 'right',
   });
@@ -342,7 +348,11 @@ function drawCertification(l: FlowLayout, d: WpqDocumentData): void {
 }
 
 function drawCaution(l: FlowLayout, d: WpqDocumentData): void {
-  const text = wpqCaution(d.company.name, d.rulesVersion);
+  drawCautionBox(l, wpqCaution(d.company.name, d.rulesVersion));
+}
+
+/** The framed "Who decides" note that closes every Beadroll record. */
+export function drawCautionBox(l: FlowLayout, text: string): void {
   const pad = 8;
   const h = l.heightOf(text, { size: 8.5 }, l.width - 2 * pad - 6) + 2 * pad + 12;
   l.gap(12);

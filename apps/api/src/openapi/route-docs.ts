@@ -66,6 +66,15 @@ import {
   welderPageSchema,
   welderSchema,
   welderUpdateInput,
+  weldDetailSchema,
+  weldDispositionInput,
+  weldInput,
+  weldListQuery,
+  weldPageSchema,
+  weldSchema,
+  jobSummaryQuery,
+  weldWelderListSchema,
+  weldWelderQuery,
 } from '@beadroll/rules';
 import { extraRouteDocs } from './extra-route-docs.js';
 
@@ -175,6 +184,15 @@ export const coreRouteDocs: RouteDoc[] = [
   { method: 'get', path: '/lapse-watch/notices', summary: 'Lapse notices and their delivery', tag: 'Lapse watch', access: 'any', roles: qa, query: lapseWatchNoticesQuery, status: 200, response: lapseNoticeListSchema },
   { method: 'get', path: '/overview', summary: 'The Overview figures', tag: 'Overview', access: 'any', roles: managers, status: 200, response: overviewSchema },
   { method: 'get', path: '/audit', summary: 'Audit trail, newest first', tag: 'Audit', access: 'any', roles: qa, query: auditListQuery, status: 200, response: pageOf(auditEventSchema) },
+
+  // production welds (issue 12)
+  { method: 'get', path: '/welds', summary: 'Production welds (by job, welder, shop, dates, flag)', tag: 'Welds', access: 'any', roles: managers, query: weldListQuery, status: 200, response: weldPageSchema },
+  { method: 'post', path: '/welds', summary: 'Log a production weld, checked against each welder’s qualification on the date welded', tag: 'Welds', access: 'any', roles: managers, body: weldInput, status: 201, response: weldSchema },
+  { method: 'get', path: '/welds/welders', summary: 'Welders who may be named on a weld of a shop, with their qualifications for the live check', tag: 'Welds', access: 'any', roles: managers, query: weldWelderQuery, status: 200, response: weldWelderListSchema },
+  { method: 'get', path: '/welds/job-summary', summary: 'Every weld of a job with its welders and check, as CSV or PDF', tag: 'Welds', access: 'any', roles: managers, query: jobSummaryQuery, status: 200, response: { binary: 'application/pdf' } },
+  { method: 'get', path: '/welds/:id/pdf', summary: 'The weld page: who made it, whether each welder was qualified that day, and the proof', tag: 'Welds', access: 'any', roles: managers, status: 200, response: { binary: 'application/pdf' } },
+  { method: 'get', path: '/welds/:id', summary: 'A production weld with its check and the proof of each welder', tag: 'Welds', access: 'any', roles: managers, status: 200, response: weldDetailSchema },
+  { method: 'post', path: '/welds/:id/disposition', summary: 'The QA manager’s disposition of a flagged weld', tag: 'Welds', access: 'any', roles: qa, body: weldDispositionInput, status: 200, response: weldSchema },
 
   // API tokens
   { method: 'get', path: '/api-tokens', summary: 'API tokens of the company', tag: 'API tokens', access: 'session', roles: qa, status: 200, response: apiTokenListSchema },

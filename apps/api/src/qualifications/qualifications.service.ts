@@ -1,5 +1,6 @@
 // Certified qualifications (WPQs): certifying a passing coupon with the ranges it qualifies, revoking,
 // superseding, their continuity status, and the WPQ record and wallet card PDFs.
+import { recheckWelds } from '../welds/welds.service.js';
 import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import type { EntityManager } from 'typeorm';
 import type { z } from 'zod';
@@ -260,6 +261,8 @@ export async function revokeQualification(
       at: now,
     });
     await recordLapseMoves(db, await refreshContinuityState(db, q.welderId, q.process, q.code), deps.clock);
+    // Welds made on or after a back-dated revocation are checked again (and flagged for disposition).
+    await recheckWelds(db, actor, now, [{ welderId: q.welderId, process: q.process, from: input.revokedOn }], 'qualification.revoked');
     await recordAudit(db, actor, now, {
       action: 'qualification.revoked',
       entityType: 'qualification',

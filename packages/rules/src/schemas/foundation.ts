@@ -237,6 +237,7 @@ export const auditEntityTypes = [
   'api-token',
   'import',
   'lapse-watch-run',
+  'weld',
 ] as const;
 export type AuditEntityType = (typeof auditEntityTypes)[number];
 

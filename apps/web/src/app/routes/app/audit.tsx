@@ -27,6 +27,7 @@ const recordLabels: Record<AuditEntityType, string> = {
   'api-token': 'API tokens',
   import: 'Imports',
   'lapse-watch-run': 'Lapse-watch runs by hand',
+  weld: 'Production welds',
 };
 const recordTypes = [
   { value: '', label: 'All records' },
