@@ -65,6 +65,8 @@ export function createRouter(queryClient: QueryClient) {
         { path: paths.couponNew.path, lazy: page(() => import('./routes/app/coupon-new')) },
         { path: paths.coupon.path, lazy: page(() => import('./routes/app/coupon')) },
         { path: paths.continuity.path, lazy: page(() => import('./routes/app/continuity')) },
+        { path: paths.welds.path, lazy: page(() => import('./routes/app/welds')) },
+        { path: paths.weld.path, lazy: page(() => import('./routes/app/weld')) },
         { path: paths.lapseWatch.path, lazy: page(() => import('./routes/app/lapse-watch')) },
         { path: paths.settings.path, lazy: page(() => import('./routes/app/settings')) },
         { path: paths.imports.path, lazy: page(() => import('./routes/app/imports')) },

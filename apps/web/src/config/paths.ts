@@ -57,6 +57,16 @@ export const paths = {
     title: 'Continuity log',
     href: (search?: string) => (search ? `/continuity?${search}` : '/continuity'),
   },
+  welds: {
+    path: '/welds',
+    title: 'Weld log',
+    href: (search?: string) => (search ? `/welds?${search}` : '/welds'),
+  },
+  weld: {
+    path: '/welds/:id',
+    title: 'Weld',
+    href: (id: string) => `/welds/${encodeURIComponent(id)}`,
+  },
   lapseWatch: { path: '/lapse-watch', title: 'Lapse watch', href: () => '/lapse-watch' },
   settings: { path: '/settings', title: 'Settings', href: () => '/settings' },
   imports: { path: '/imports', title: 'Import', href: () => '/imports' },

@@ -44,6 +44,10 @@ export const statuses = {
   // a WPS in the register
   'procedure.active': { label: 'Active', tone: 'good', icon: CheckCircleIcon },
   'procedure.superseded': { label: 'Superseded', tone: 'neutral', icon: MinusCircleIcon },
+  // a production weld's check on entry
+  'weld.within': { label: 'Within qualification', tone: 'good', icon: CheckCircleIcon },
+  'weld.flagged': { label: 'Flagged · waiting for a disposition', tone: 'bad', icon: AlertIcon },
+  'weld.dispositioned': { label: 'Flagged · dispositioned', tone: 'warn', icon: CheckCircleIcon },
 } satisfies Record<string, StatusDef>;
 
 export type StatusKey = keyof typeof statuses;

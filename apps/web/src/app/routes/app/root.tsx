@@ -25,6 +25,7 @@ export function navigationFor(me: Me): NavItem[] {
         { label: 'Overview', to: paths.overview.href(), end: true },
         { label: 'Welders', to: paths.welders.href() },
         { label: 'Continuity log', to: paths.continuity.href() },
+        { label: 'Weld log', to: paths.welds.href() },
         { label: 'Coupons', to: paths.coupons.href() },
         { label: 'Procedures', to: paths.procedures.href() },
         { label: 'Shops', to: paths.shops.href() },
@@ -41,6 +42,7 @@ export function navigationFor(me: Me): NavItem[] {
         { label: 'Overview', to: paths.overview.href(), end: true },
         { label: 'Welders', to: paths.welders.href() },
         { label: 'Continuity log', to: paths.continuity.href() },
+        { label: 'Weld log', to: paths.welds.href() },
         { label: 'Procedures', to: paths.procedures.href() },
       ];
     case 'welder':
