@@ -73,9 +73,27 @@ describe('the demo seed', () => {
       continuityEntries: 0,
       revocations: 0,
       renewals: 0,
+      welds: 0,
     });
     expect(await demoCounts(api)).toEqual(once);
     expect(await recordCounts(api)).toEqual(records);
+  });
+
+  it('has two jobs of production welds, exactly one flagged with its reason and clause', async () => {
+    await seedDemo(api.ds, api.config);
+    const jobs = await api.ds.query<{ job: string; welds: number; flagged: number }[]>(
+      `SELECT job_reference AS job, count(*)::int AS welds, count(*) FILTER (WHERE flagged)::int AS flagged
+         FROM welds w JOIN organizations o ON o.id = w.organization_id
+        WHERE o.name = 'Harrow Point Fabrication' GROUP BY 1 ORDER BY 1`,
+    );
+    expect(jobs).toEqual([
+      { job: 'HPF-2433', welds: 6, flagged: 1 },
+      { job: 'TRV-131', welds: 5, flagged: 0 },
+    ]);
+    const [reason] = await api.ds.query<{ reasons: { variable: string; clause: string }[] }[]>(
+      `SELECT p.reasons FROM weld_passes p JOIN welds w ON w.id = p.weld_id WHERE w.flagged AND w.weld_number = 'N5'`,
+    );
+    expect(reason!.reasons.map((r) => r.variable)).toContain('thickness');
   });
 
   it('gives every demo account its role and shops', async () => {

@@ -13,6 +13,7 @@ import { createLogger } from '../lib/logger.js';
 import { systemClock, type Clock } from '../lib/context.js';
 import { seedRecords, type RecordsSeedResult } from './seed-records.js';
 import { seedContinuity, type ContinuitySeedResult } from './seed-continuity.js';
+import { seedWelds } from './seed-welds.js';
 
 export const DEMO_PASSWORD = 'demo-weld-2026';
 export const DEMO_ACCOUNTS = {
@@ -91,7 +92,7 @@ export function assertSeedAllowed(config: Pick<Config, 'nodeEnv' | 'db'>): void 
 
 export interface SeedResult {
   created: { organizations: number; shops: number; welders: number; users: number } & RecordsSeedResult &
-    ContinuitySeedResult;
+    ContinuitySeedResult & { welds: number };
 }
 
 async function ensureOrganization(db: EntityManager, name: string, r: SeedResult): Promise<string> {
@@ -196,6 +197,7 @@ export async function seedDemo(
       continuityEntries: 0,
       revocations: 0,
       renewals: 0,
+      welds: 0,
     },
   };
   const harrowId = await dataSource.transaction(async (db) => {
@@ -305,6 +307,8 @@ export async function seedDemo(
     // Continuity history on top of the records (relative to today), in the same session lock.
     const continuityDeps = { config, dataSource, storage, mailer, logger: createLogger(config), clock: opts.clock ?? systemClock };
     Object.assign(result.created, await seedContinuity(continuityDeps, harrowId, qa!.id));
+    // Production welds last: each is checked against the qualifications and continuity seeded above.
+    result.created.welds = await seedWelds(continuityDeps, harrowId, qa!.id);
   } finally {
     await runner.query(`SELECT pg_advisory_unlock(hashtext('beadroll-demo-records'))`).catch(() => undefined);
     await runner.release();
