@@ -15,11 +15,12 @@ const HOSTILE = ['=HYPERLINK("http://evil.example","open")', '+SUM(1+1)', '-2+3'
 describe('CSV exports escape formulas', () => {
   let api: TestApi;
   let qa: Awaited<ReturnType<typeof signIn>>;
+  let world: Awaited<ReturnType<typeof makeWorld>>;
   const period = { from: daysAgo(200).slice(0, 8) + '01', to: daysAgo(0) };
 
   beforeAll(async () => {
     api = await startTestApi();
-    const world = await makeWorld(api.ds);
+    world = await makeWorld(api.ds);
     qa = await signIn(api.app, world.qa.email, TEST_PASSWORD);
     await makeProcedure(api.ds, world.org, { number: 'WPS-CSV' });
     await api.ds.query(`UPDATE welders SET name = $2 WHERE id = $1`, [world.weldersA[0]!.id, HOSTILE[0]]);
@@ -42,6 +43,22 @@ describe('CSV exports escape formulas', () => {
   afterAll(() => api.close());
 
   const recipes: Record<string, () => Promise<Buffer>> = {
+    'get /welds/job-summary.csv': async () => {
+      // A weld whose job, number and note start like formulas, by a welder whose name does.
+      const job = HOSTILE[1]!;
+      await qa
+        .post('/api/welds')
+        .send({
+          shopId: world.shopA.id,
+          jobReference: job,
+          weldNumber: HOSTILE[3],
+          weldedOn: daysAgo(3),
+          joint: { form: 'plate', weld: 'groove', position: 'F', thickness: { value: 0.5, unit: 'in' }, backing: true },
+          passes: [{ welderId: world.weldersA[0]!.id, process: 'SMAW', layer: 'all' }],
+        })
+        .expect(201);
+      return (await qa.get('/api/welds/job-summary.csv').query({ job }).buffer(true).parse(binaryBody).expect(200)).body as Buffer;
+    },
     'get /reports/audit.csv': async () =>
       (await qa.get('/api/reports/audit.csv').query(period).buffer(true).parse(binaryBody).expect(200)).body as Buffer,
   };

@@ -271,20 +271,20 @@ describe('production welds (/api/welds)', () => {
       const w = await world(2);
       await log(w, { jobReference: 'JOB-SUM', weldNumber: '=1+2', weldedOn: daysAgo(2) });
       await log(w, { jobReference: 'JOB-SUM', weldNumber: '2', joint: { fNumber: 5 } });
-      const csv = (await asBuffer(w.qaAgent, '/api/welds/job-summary?job=JOB-SUM&format=csv').expect(200).expect('Content-Type', /text\/csv/)).body as Buffer;
+      const csv = (await asBuffer(w.qaAgent, '/api/welds/job-summary.csv?job=JOB-SUM').expect(200).expect('Content-Type', /text\/csv/)).body as Buffer;
       const lines = csv.toString('utf8').trim().split('\r\n');
       expect(lines[0]).toMatch(/^Job,Weld,Date welded/);
       expect(lines).toHaveLength(3);
       // common practice (no source): a cell starting with = + - @ is prefixed so a spreadsheet reads it as text.
-      expect(lines.find((l) => l.includes("'=1+2"))).toMatch(/^JOB-SUM,'=1\+2,/);
+      expect(lines.find((l) => l.includes("'=1+2"))).toMatch(/^JOB-SUM,"'=1\+2",/);
       expect(lines.find((l) => l.startsWith('JOB-SUM,2,'))).toMatch(/,no,.*F-No\. 5.*QW-433/);
-      const pdf = pdfText(binary(await asBuffer(w.qaAgent, '/api/welds/job-summary?job=JOB-SUM&format=pdf').expect(200)));
+      const pdf = pdfText(binary(await asBuffer(w.qaAgent, '/api/welds/job-summary.pdf?job=JOB-SUM').expect(200)));
       expect(pdf).toContain('Job JOB-SUM');
       expect(pdf).toMatch(/2 welds · 1 flagged/);
-      await w.qaAgent.get('/api/welds/job-summary?job=NO-SUCH-JOB').expect(404);
+      await w.qaAgent.get('/api/welds/job-summary.pdf?job=NO-SUCH-JOB').expect(404);
       const other = await makeOtherCompany(api.ds);
       const otherQa = await signIn(api.app, other.qa.email, TEST_PASSWORD);
-      await otherQa.get('/api/welds/job-summary?job=JOB-SUM').expect(404);
+      await otherQa.get('/api/welds/job-summary.csv?job=JOB-SUM').expect(404);
     });
   });
 

@@ -4,6 +4,7 @@
 // in force that day, any revocation) — in the typography of the WPQ record.
 import type { QualifiedOnAnswer, Weld } from '@beadroll/rules';
 import { weldCheckWords as checkText, weldDispositionNames, weldExaminationWords as examinationText, weldJointWords as jointText, weldLayerNames } from '@beadroll/rules';
+import { toCsv } from '../lib/csv.js';
 import { formatDate } from './document-format.js';
 import { createDocument, documentBuffer } from './fonts.js';
 import { FlowLayout, HAIRLINE, INK, MUTED, WARN, stampPages, type Row } from './pdf-layout.js';
@@ -204,12 +205,6 @@ export function renderJobSummaryPdf(d: JobSummaryData): Promise<Buffer> {
   });
 }
 
-/** A spreadsheet cell that begins with = + - @ (or a tab or return) is read as a formula: keep it text. */
-export function csvCell(v: string): string {
-  const safe = /^[=+\-@\t\r]/.test(v) ? `'${v}` : v;
-  return /[",\n\r]/.test(safe) ? `"${safe.replaceAll('"', '""')}"` : safe;
-}
-
 /** The job summary as CSV: one row per welder of each weld. */
 export function jobSummaryCsv(d: JobSummaryData): string {
   const head = ['Job', 'Weld', 'Date welded', 'Shop', 'WPS', 'Stamp', 'Welder', 'Process', 'Part', 'Qualified', 'WPQ', 'Reasons and clauses', 'Check', 'Disposition', 'Rules version'];
@@ -232,5 +227,5 @@ export function jobSummaryCsv(d: JobSummaryData): string {
       w.rulesVersion,
     ]),
   );
-  return [head, ...rows].map((r) => r.map(csvCell).join(',')).join('\r\n') + '\r\n';
+  return toCsv(head, rows);
 }

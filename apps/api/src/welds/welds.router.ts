@@ -31,8 +31,12 @@ export function weldsRouter(deps: AppDeps, requireAuth: RequestHandler): Router 
     res.json(await welds.weldWelders(deps, actorOf(req), weldWelderQuery.parse(req.query)));
   });
 
-  router.get('/job-summary', async (req, res) => {
-    sendFile(res, await welds.jobSummary(deps, actorOf(req), jobSummaryQuery.parse(req.query)));
+  router.get('/job-summary.csv', async (req, res) => {
+    sendFile(res, await welds.jobSummary(deps, actorOf(req), jobSummaryQuery.parse(req.query), 'csv'));
+  });
+
+  router.get('/job-summary.pdf', async (req, res) => {
+    sendFile(res, await welds.jobSummary(deps, actorOf(req), jobSummaryQuery.parse(req.query), 'pdf'));
   });
 
   router.get('/:id/pdf', async (req, res) => {

@@ -24,6 +24,7 @@ import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
 import { lockPairs, refreshContinuityPairs, type PairKey } from '../continuity/continuity-state.repository.js';
 import { qualifiedOnInCompany } from '../qualified-on/qualified-on.service.js';
 import * as repo from './welds.repository.js';
+import { CSV_CONTENT_TYPE } from '../lib/csv.js';
 import { jobSummaryCsv, renderJobSummaryPdf, renderWeldPdf } from '../documents/weld-pdf.js';
 
 function checkShopAccess(actor: Actor, shopId: string): void {
@@ -282,7 +283,8 @@ export async function weldPdf(deps: AppDeps, actor: Actor, id: string): Promise<
 export async function jobSummary(
   deps: AppDeps,
   actor: Actor,
-  q: { job: string; format: 'csv' | 'pdf' },
+  q: { job: string },
+  format: 'csv' | 'pdf',
 ): Promise<{ body: Buffer; fileName: string; type: string }> {
   if (actor.role === 'welder') throw AppError.forbidden();
   const welds: Weld[] = [];
@@ -300,7 +302,7 @@ export async function jobSummary(
     rulesVersion: RULES_VERSION,
   };
   const safe = q.job.replace(/[^A-Za-z0-9._-]+/g, '_');
-  return q.format === 'csv'
-    ? { body: Buffer.from(jobSummaryCsv(data), 'utf8'), fileName: `job-${safe}-welds.csv`, type: 'text/csv; charset=utf-8' }
+  return format === 'csv'
+    ? { body: Buffer.from(jobSummaryCsv(data), 'utf8'), fileName: `job-${safe}-welds.csv`, type: CSV_CONTENT_TYPE }
     : { body: await renderJobSummaryPdf(data), fileName: `job-${safe}-welds.pdf`, type: 'application/pdf' };
 }

@@ -163,11 +163,8 @@ export const weldPageSchema = z.object({
 });
 export type WeldPage = z.infer<typeof weldPageSchema>;
 
-/** A job's welds as a file: CSV for a spreadsheet, PDF to print. */
-export const jobSummaryQuery = z.object({
-  job: textSchema({ max: 80, min: 1 }),
-  format: z.enum(['csv', 'pdf'], { error: 'format is csv or pdf' }).optional().default('pdf'),
-});
+/** A job's welds as a file (CSV for a spreadsheet, PDF to print). */
+export const jobSummaryQuery = z.object({ job: textSchema({ max: 80, min: 1 }) });
 
 /** Welders who may be named on a weld of a shop: every active welder of the company (any shop may weld anywhere). */
 export const weldWelderQuery = z.object({ shopId: uuid, q: searchQuerySchema });

@@ -131,10 +131,10 @@ function Job({ shopId, job }: { shopId: string; job: string }) {
           </h2>
           {welds.data && welds.data.items.length > 0 && (
             <div className="flex gap-2 text-sm">
-              <a className="font-semibold text-accent-700 underline" href={`/api/welds/job-summary?job=${encodeURIComponent(job)}&format=pdf`} download>
+              <a className="font-semibold text-accent-700 underline" href={`/api/welds/job-summary.pdf?job=${encodeURIComponent(job)}`} download>
                 Job summary (PDF)
               </a>
-              <a className="font-semibold text-accent-700 underline" href={`/api/welds/job-summary?job=${encodeURIComponent(job)}&format=csv`} download>
+              <a className="font-semibold text-accent-700 underline" href={`/api/welds/job-summary.csv?job=${encodeURIComponent(job)}`} download>
                 Job summary (CSV)
               </a>
             </div>
