@@ -416,6 +416,11 @@ export async function walletCardPdf(
         state: status.state,
       };
     });
+  // A card vouches for what the welder may weld today: none when nothing is current (issue 10 item 8).
+  if (qualifications.length === 0)
+    throw AppError.conflict(
+      `${welder.name} holds no current qualification (every one is lapsed, revoked or superseded, or none is certified); no wallet card is issued`,
+    );
   const pdf = await renderWalletCardPdf({
     company: { name: company },
     welder: { name: welder.name, stamp: welder.stamp, homeShop: welder.homeShop },

@@ -28,7 +28,9 @@ export default function MyQualificationsRoute() {
         title="My qualifications"
         description={`Signed in as ${me.name}.`}
         actions={
-          me.welderId && (
+          me.welderId &&
+          // a wallet card vouches for today: none is issued when no qualification is current or lapsing
+          (list.data?.items ?? []).some((q) => q.status.state === 'current' || q.status.state === 'lapsing') && (
             <a className={buttonClasses('secondary')} href={walletCardUrl(me.welderId)} download>
               Download my wallet card (PDF)
             </a>

@@ -248,6 +248,9 @@ export default function WelderRoute() {
   const welder = useQuery(welderQueries.detail(id));
   const isQa = me.role === 'qa_manager';
   const own = me.welderId === id;
+  // a wallet card vouches for today: none is issued when no qualification is current or lapsing
+  const held = useQuery(qualificationQueries.list({ welderId: id, state: 'all' }));
+  const carded = (held.data?.items ?? []).some((q) => !q.supersededById && (q.status.state === 'current' || q.status.state === 'lapsing'));
 
   const back =
     me.role !== 'welder' ? (
@@ -310,9 +313,13 @@ export default function WelderRoute() {
           <p className="mt-1 text-sm text-stone-700">
             The wallet card lists the current and lapsing qualifications, with a QR code that opens the public Verify page.
           </p>
-          <a className={buttonClasses('secondary', 'mt-2')} href={walletCardUrl(w.id)} download>
-            Download the wallet card (PDF)
-          </a>
+          {carded ? (
+            <a className={buttonClasses('secondary', 'mt-2')} href={walletCardUrl(w.id)} download>
+              Download the wallet card (PDF)
+            </a>
+          ) : held.data ? (
+            <p className="mt-2 text-sm text-stone-700">No wallet card is issued: no qualification of this welder is current.</p>
+          ) : null}
           {isQa && (
             <div className="mt-4 border-t border-stone-100 pt-3">
               <h3 className="text-sm font-bold">Verify link</h3>
