@@ -40,3 +40,29 @@ describe('GET /api/welders/:id/card.pdf', () => {
     expect(revoked.status).toBe(409);
   });
 });
+
+describe('the verify page names the restrictions', () => {
+  let api: TestApi;
+  beforeAll(async () => {
+    api = await startTestApi();
+  });
+  afterAll(() => api.close());
+
+  it('says "uphill progression only" beside the ranges of a qualification tested uphill (from memory: ASME IX QW-405.3, uphill and downhill qualify separately)', async () => {
+    const world = await makeWorld(api.ds);
+    const wps = await makeProcedure(api.ds, world.org, { number: 'W-VER', code: 'asme-ix', processes: ['SMAW'] });
+    const qa = await signIn(api.app, world.qa.email, TEST_PASSWORD);
+    const welder = world.weldersA[0]!;
+    const coupon = bodyOf(
+      couponRecordSchema,
+      await qa
+        .post('/api/coupons')
+        .send(couponBody({ welderId: welder.id, shopId: world.shopA.id, procedureId: wps.id }, { claimedResult: 'accept' }))
+        .expect(201),
+    );
+    await qa.post(`/api/coupons/${coupon.id}/certify`).send({ certifiedOn: daysAgo(5), version: coupon.version }).expect(201);
+    const url = ((await qa.post(`/api/welders/${welder.id}/verify-token`).expect(201)).body as { url: string }).url;
+    const view = (await qa.get(`/api/verify/${url.split('/verify/')[1]!}`).expect(200)).body as { qualifications: Array<{ summary: string }> };
+    expect(view.qualifications[0]?.summary).toContain('uphill progression only');
+  });
+});

@@ -376,7 +376,22 @@ export async function wpqPdf(
 export function rangeSummary(ranges: Record<string, unknown>): string {
   const r = ranges as unknown as QualifiedRanges;
   const pos = (p: string[]) => (p.length ? p.join(', ') : 'none');
-  return `Groove ${pos(r.positions.groove)}; fillet ${pos(r.positions.fillet)} · ${formatThicknessRange(r)} · ${formatDiameterRange(r)}`;
+  return [
+    `Groove ${pos(r.positions.groove)}; fillet ${pos(r.positions.fillet)}`,
+    formatThicknessRange(r),
+    formatDiameterRange(r),
+    ...restrictionsOf(r),
+  ].join(' · ');
+}
+
+/** What the qualification allows only in part, in words an inspector reads (issue 10 item 8). */
+export function restrictionsOf(r: QualifiedRanges): string[] {
+  return [
+    ...(r.backing.length === 1 ? [r.backing[0] === 'with' ? 'with backing only' : 'without backing only'] : []),
+    ...(r.progression?.length === 1 ? [`${r.progression[0]} progression only`] : []),
+    ...(r.transferModes ? [`${r.transferModes.join(', ')} transfer only`] : []),
+    ...(r.withoutFillerOnly ? ['without filler metal only'] : []),
+  ];
 }
 
 /** The welder's qualifications that belong on a card or a verify page: not superseded, with today's status. */
