@@ -188,6 +188,27 @@ describe('production welds (/api/welds)', () => {
       expect(detail.proof).toHaveLength(1);
       expect(detail.proof[0]).toMatchObject({ passId: weld.passes[0]!.id, answer: { qualified: true, qualificationId: w.qualificationId } });
     });
+
+    it("names an earlier production weld in a later weld's proof chain: job, weld number, shop and who logged it", async () => {
+      const w = await world(3);
+      const earlier = await log(w, { weldNumber: '7', jobReference: 'TRV-131', weldedOn: monthsAgo(1) });
+      const later = await log(w, { weldNumber: '14' });
+      const detail = bodyOf(weldDetailSchema, await w.qaAgent.get(`/api/welds/${later.id}`).expect(200));
+      const chain = detail.proof[0]!.answer.evidence.qualifications[0]!.continuity.evidence;
+      // The walk carries a weld pass id for a production weld's day; the proof must say which weld it was.
+      const row = chain.find((e) => e.date === monthsAgo(1))!;
+      expect(row).toMatchObject({
+        kind: 'use',
+        source: 'weld-log',
+        counted: true,
+        job: 'TRV-131',
+        weldNumber: '7',
+        weldId: earlier.id,
+        shop: w.shopA.name,
+        loggedBy: w.foreman.name,
+      });
+      expect(chain.every((e) => e.source !== 'other')).toBe(true);
+    });
   });
 
   describe('POST /api/welds/:id/disposition', () => {

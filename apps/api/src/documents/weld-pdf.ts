@@ -95,8 +95,8 @@ function drawPass(l: FlowLayout, w: Weld, p: Weld['passes'][number], answer: Qua
     const ev: Row[] = c.evidence.map((e) => ({
       cells: [
         e.date,
-        e.kind === 'test' ? 'Test' : e.source === 'continuity-log' ? 'Logged use' : 'Use',
-        [e.job ? `job ${e.job}` : '', e.shop ?? ''].filter(Boolean).join(', ') || '—',
+        e.kind === 'test' ? 'Test' : e.source === 'continuity-log' ? 'Logged use' : e.source === 'weld-log' ? 'Production weld' : 'Use',
+        [e.job ? `job ${e.job}` : '', e.weldNumber ? `weld ${e.weldNumber}` : '', e.shop ?? ''].filter(Boolean).join(', ') || '—',
         [e.loggedBy ?? '', e.loggedAt ? formatDate(e.loggedAt.slice(0, 10)) : ''].filter(Boolean).join(', ') || '—',
         e.counted ? (e.renewal ? 'Counted (renewal)' : 'Counted') : `Not counted${e.note ? `: ${e.note}` : ''}`,
       ],

@@ -130,7 +130,12 @@ export async function walkAsOf(
 
 export interface EntryDetail {
   id: string;
+  /** entry: a row of the continuity log; weld: a pass of a logged production weld. */
+  source: 'entry' | 'weld';
   job: string;
+  /** The weld or joint number, for a production weld. */
+  weldNumber: string | null;
+  weldId: string | null;
   note: string;
   shop: string;
   loggedBy: string | null;
@@ -139,15 +144,26 @@ export interface EntryDetail {
   reviewStatus: string | null;
 }
 
-/** The logged use behind walk rows: job, shop, who logged it and when, its review flag. */
+/**
+ * The logged use behind walk rows — continuity-log entries and production weld passes (the walk carries
+ * either id): job, weld number, shop, who logged it and when, its review flag.
+ */
 export async function entryDetails(db: EntityManager, ids: string[]): Promise<EntryDetail[]> {
   if (ids.length === 0) return [];
   return db.query<EntryDetail[]>(
-    `SELECT e.id, e.job_reference AS job, e.note, s.name AS shop, u.name AS "loggedBy",
+    `SELECT e.id, 'entry' AS source, e.job_reference AS job, NULL AS "weldNumber", NULL AS "weldId", e.note,
+            s.name AS shop, u.name AS "loggedBy",
             to_char(e.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"') AS "loggedAt",
             e.flagged_lapsed AS flagged, e.review_status AS "reviewStatus"
        FROM continuity_entries e JOIN shops s ON s.id = e.shop_id LEFT JOIN users u ON u.id = e.logged_by
-      WHERE e.id = ANY ($1::uuid[])`,
+      WHERE e.id = ANY ($1::uuid[])
+     UNION ALL
+     SELECT p.id, 'weld', w.job_reference, w.weld_number, w.id, w.note, s.name, u.name,
+            to_char(w.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"'),
+            NOT p.qualified, w.review_status
+       FROM weld_passes p JOIN welds w ON w.id = p.weld_id JOIN shops s ON s.id = w.shop_id
+       LEFT JOIN users u ON u.id = w.logged_by
+      WHERE p.id = ANY ($1::uuid[])`,
     [ids],
   );
 }
@@ -162,7 +178,10 @@ export interface CouponOnDay {
   recordedAt: string;
 }
 
-/** The welder's passing coupons of the process up to the day (the tests and coupon use in the walk). */
+/**
+ * The welder's passing coupons of the process up to the day (the tests and coupon use in the walk); a
+ * combination coupon counts for each of its processes, as in the walk.
+ */
 export async function passingCoupons(
   db: EntityManager,
   welderId: string,
@@ -174,7 +193,7 @@ export async function passingCoupons(
             EXISTS (SELECT 1 FROM qualifications q WHERE q.coupon_id = c.id) AS certified, s.name AS shop,
             u.name AS "recordedBy", to_char(c.created_at AT TIME ZONE 'UTC', 'YYYY-MM-DD"T"HH24:MI:SS"Z"') AS "recordedAt"
        FROM coupons c JOIN shops s ON s.id = c.shop_id LEFT JOIN users u ON u.id = c.recorded_by
-      WHERE c.welder_id = $1 AND c.process = $2 AND c.result = 'accept' AND c.tested_on <= $3::date
+      WHERE c.welder_id = $1 AND $2 = ANY (c.processes) AND c.result = 'accept' AND c.tested_on <= $3::date
       ORDER BY c.tested_on`,
     [welderId, process, date],
   );

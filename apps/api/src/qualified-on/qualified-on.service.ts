@@ -120,17 +120,21 @@ function evidenceRows(
             : c
               ? 'Passing coupon under another code or not certified: use of the process.'
               : e
-                ? 'Logged use of the process.'
+                ? e.source === 'weld'
+                  ? 'Production weld: use of the process.'
+                  : 'Logged use of the process.'
                 : 'Documented use of the process.';
       return {
         date: w.date,
         kind: w.kind,
-        source: e ? 'continuity-log' : c ? 'coupon' : 'other',
+        source: e ? (e.source === 'weld' ? 'weld-log' : 'continuity-log') : c ? 'coupon' : 'other',
         counted: w.counted,
         renewal: w.renewal,
         note,
         entryId: w.entryId,
         couponId: c?.id ?? null,
+        weldId: e?.weldId ?? null,
+        weldNumber: e?.weldNumber ?? null,
         job: e?.job ?? null,
         shop: e?.shop ?? c?.shop ?? null,
         loggedBy: e ? e.loggedBy : (c?.recordedBy ?? null),

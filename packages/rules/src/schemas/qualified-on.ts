@@ -183,13 +183,17 @@ export const proofEvidenceSchema = z.object({
   date: z.string(),
   /** test: a certified passing coupon of the pair (the qualification or a renewal); use: logged or other use. */
   kind: z.enum(['test', 'use']),
-  source: z.enum(['coupon', 'continuity-log', 'other']),
+  /** continuity-log: a logged entry; weld-log: a pass of a logged production weld; coupon: a passing coupon. */
+  source: z.enum(['coupon', 'continuity-log', 'weld-log', 'other']),
   counted: z.boolean(),
   renewal: z.boolean(),
   /** Why an uncounted row did not count. */
   note: z.string(),
   entryId: z.string().nullable(),
   couponId: z.string().nullable(),
+  /** The production weld behind a weld-log row, and its weld or joint number. */
+  weldId: z.string().nullable(),
+  weldNumber: z.string().nullable(),
   job: z.string().nullable(),
   shop: z.string().nullable(),
   loggedBy: z.string().nullable(),

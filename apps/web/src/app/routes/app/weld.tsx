@@ -151,8 +151,9 @@ function ProofView({ proof, weldedOn }: { proof: QualifiedOnAnswer; weldedOn: st
               <ul className="mt-1 space-y-0.5 text-xs">
                 {q.continuity.evidence.map((e, k) => (
                   <li key={k}>
-                    {e.date} · {e.kind === 'test' ? 'test' : 'use'}
+                    {e.date} · {e.kind === 'test' ? 'test' : e.source === 'weld-log' ? 'production weld' : 'use'}
                     {e.job ? ` · job ${e.job}` : ''}
+                    {e.weldNumber ? ` · weld ${e.weldNumber}` : ''}
                     {e.shop ? ` · ${e.shop}` : ''}
                     {e.loggedBy ? ` · logged by ${e.loggedBy}` : ''} · {e.counted ? 'counted' : `not counted${e.note ? `: ${e.note}` : ''}`}
                   </li>
