@@ -88,7 +88,19 @@ describe('crew finder = qualified-on, for all companies (property)', () => {
         }
         const through = addDays(today, c.throughDays);
         const joint = JOINTS[c.joint]!;
-        const found = await findCrew(api.deps, actor, { process: 'SMAW', through, joint: joint.joint, positions: joint.positions ?? [joint.joint.position] });
+        const ask = { process: 'SMAW' as const, through, joint: joint.joint, positions: joint.positions ?? [joint.joint.position] };
+        // Paged through two at a time: the pages together are the whole crew, each welder once, longest in force first.
+        const pages = [];
+        for (let offset = 0; ; offset += 2) {
+          const page = await findCrew(api.deps, actor, { ...ask, limit: 2, offset, nearLimit: 2, nearOffset: offset });
+          pages.push(page);
+          if (offset + 2 >= Math.max(page.crew.total, page.nearMisses.total)) break;
+        }
+        const found = { crew: { total: pages[0]!.crew.total, items: pages.flatMap((p) => p.crew.items) }, nearMisses: { total: pages[0]!.nearMisses.total, items: pages.flatMap((p) => p.nearMisses.items) } };
+        const lapses = found.crew.items.map((m) => m.lapsesOn);
+        expect(lapses).toEqual([...lapses].sort().reverse());
+        expect(found.nearMisses.items).toHaveLength(found.nearMisses.total);
+        expect(new Set(found.nearMisses.items.map((n) => n.welder.stamp)).size).toBe(found.nearMisses.total);
         const expected: string[] = [];
         for (const w of welders) {
           const ask = (date: string) => qualifiedOnInCompany(api.ds.manager, org.id, w.id, { date, process: 'SMAW', ...joint });

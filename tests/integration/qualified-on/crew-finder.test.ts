@@ -69,6 +69,13 @@ describe('GET /api/crew-finder', () => {
     expect(near.get('C-15')).toMatchObject({ kind: 'revoked', reason: { clause: 'QW-322.1(b)' } });
     expect(a.notice).toMatch(/inspector/);
 
+    // One page at a time, with the exact totals: the second of the crew, the near misses two by two.
+    const second = await ask(sixWeeks, { limit: '1', offset: '1', nearLimit: '2', nearOffset: '2' });
+    expect(second.crew).toMatchObject({ total: 2, offset: 1, limit: 1 });
+    expect(second.crew.items.map((m) => m.welder.stamp)).toEqual(['C-11']);
+    expect(second.nearMisses).toMatchObject({ total: 4, offset: 2, limit: 2 });
+    expect(second.nearMisses.items.map((n) => n.welder.stamp)).toEqual(a.nearMisses.items.slice(2).map((n) => n.welder.stamp));
+
     // Through today only, the one lapsing in 20 days is on the crew.
     expect((await ask(t)).crew.items.map((m) => m.welder.stamp)).toEqual(['C-10', 'C-11', 'C-12']);
     // A shop with none of them.
@@ -89,5 +96,15 @@ describe('GET /api/crew-finder', () => {
     const res = await qa.get('/api/crew-finder').query({ process: 'SMAW', through: '2020-01-01', ...joint6inSch80 });
     expect(res.status).toBe(400);
     expect(Object.keys(errorOf(res).fields ?? {})).toEqual(['through']);
+  });
+
+  it('refuses a page size of none or over the most, naming the field', async () => {
+    const w = await makeWorld(api.ds);
+    const qa = await signIn(api.app, w.qa.email, TEST_PASSWORD);
+    for (const [field, value] of [['limit', '0'], ['nearLimit', '5000'], ['offset', '-1']] as const) {
+      const res = await qa.get('/api/crew-finder').query({ process: 'SMAW', ...joint6inSch80, [field]: value });
+      expect(res.status).toBe(400);
+      expect(Object.keys(errorOf(res).fields ?? {})).toEqual([field]);
+    }
   });
 });

@@ -61,6 +61,23 @@ const rowJson = `json_build_object(
   'lapsesOn', to_char(x.lapses_on, 'YYYY-MM-DD'), 'lastEvidence', to_char(x.last_evidence, 'YYYY-MM-DD'),
   'revokedOn', to_char(x.revoked_on, 'YYYY-MM-DD'), 'revokedReason', x.revoked_reason)`;
 
+// A qualification's class against the range (NULL: not shown). $3 keys that fit, $6 today, $7 the last day.
+const klassOf = (q: string, cs: string) => `CASE WHEN ${q}.ranges_key = ANY ($3::text[]) THEN
+         CASE WHEN least(${cs}.lapses_on, ${q}.revoked_on) > $7::date THEN ${CLASS.fits}
+              WHEN ${q}.revoked_on <= $7::date THEN ${CLASS.revoked}
+              WHEN ${cs}.lapses_on > $6::date THEN ${CLASS.lapsesInRange}
+              ELSE ${CLASS.lapsed} END
+       WHEN least(${cs}.lapses_on, ${q}.revoked_on) > $7::date THEN ${CLASS.outOfRange}
+  END`;
+// One number per qualification that sorts best first: its class, then the latest day it stays in force.
+const scoreOf = (klass: string, until: string) => `(${klass}) * 1000000 - (${until} - date '2000-01-01')`;
+
+/**
+ * The exact counts of the crew and of the near misses, and one page of each. Each welder is judged by
+ * their best qualification (class, then in force longest): one hash aggregate over the candidates'
+ * index-only rows joined to the maintained continuity state, then a top-N sort for the page; only the
+ * welders of the page have their best qualification read back (by their own rows).
+ */
 export async function crewRows(
   db: EntityManager,
   f: {
@@ -73,41 +90,56 @@ export async function crewRows(
     fitting: string[];
     oneOff: string[];
     crewLimit: number;
+    crewOffset: number;
     nearLimit: number;
+    nearOffset: number;
   },
 ): Promise<{ crewTotal: number; nearTotal: number; crew: CrewRow[]; near: CrewRow[] }> {
   const [row] = await db.query<{ crewTotal: number; nearTotal: number; crew: CrewRow[] | null; near: CrewRow[] | null }[]>(
     `WITH cand AS (
-       SELECT q.id, q.number, q.code, q.welder_id, q.ranges_key, q.revoked_on, q.revoked_reason,
-              least(cs.lapses_on, q.revoked_on) AS lapses_on, cs.last_evidence,
-              CASE WHEN q.ranges_key = ANY ($3::text[]) THEN
-                     CASE WHEN least(cs.lapses_on, q.revoked_on) > $7::date THEN ${CLASS.fits}
-                          WHEN q.revoked_on <= $7::date THEN ${CLASS.revoked}
-                          WHEN cs.lapses_on > $6::date THEN ${CLASS.lapsesInRange}
-                          ELSE ${CLASS.lapsed} END
-                   WHEN least(cs.lapses_on, q.revoked_on) > $7::date THEN ${CLASS.outOfRange}
-              END AS klass
+       SELECT q.welder_id, ${klassOf('q', 'cs')} AS klass, least(cs.lapses_on, q.revoked_on) AS until
          FROM qualifications q
          JOIN continuity_states cs ON cs.welder_id = q.welder_id AND cs.process = q.process AND cs.code = q.code
         WHERE ${crewScope} AND q.ranges_key = ANY ($3::text[] || $4::text[])
           AND ($5::text IS NULL OR q.code = $5) AND q.certified_on <= $6::date
      ),
-     best AS (
-       SELECT DISTINCT ON (c.welder_id) c.*, w.stamp, w.name, s.name AS shop
-         FROM cand c
-         JOIN welders w ON w.id = c.welder_id AND w.active
+     per AS (
+       SELECT c.welder_id, min(c.klass) AS klass, min(${scoreOf('c.klass', 'c.until')}) AS score
+         FROM cand c WHERE c.klass IS NOT NULL GROUP BY c.welder_id
+     ),
+     ranked AS (
+       SELECT p.welder_id, p.klass, p.score, w.stamp, w.name, s.name AS shop
+         FROM per p
+         JOIN welders w ON w.id = p.welder_id AND w.active
          JOIN shops s ON s.id = w.home_shop_id
-        WHERE c.klass IS NOT NULL AND ($8::uuid[] IS NULL OR w.home_shop_id = ANY ($8::uuid[]))
-        ORDER BY c.welder_id, c.klass, c.lapses_on DESC, c.number
+        WHERE $8::uuid[] IS NULL OR w.home_shop_id = ANY ($8::uuid[])
+     ),
+     page AS (
+       (SELECT r.* FROM ranked r WHERE r.klass = 0 ORDER BY r.score, r.stamp LIMIT $9 OFFSET $10)
+       UNION ALL
+       (SELECT r.* FROM ranked r WHERE r.klass > 0 ORDER BY r.score, r.stamp LIMIT $11 OFFSET $12)
      ),
      shown AS (
-       SELECT b.*, row_number() OVER (PARTITION BY b.klass = 0 ORDER BY b.klass, b.lapses_on DESC, b.stamp) AS n FROM best b
+       SELECT p.*, b.* FROM page p
+       CROSS JOIN LATERAL (
+         SELECT q.id, q.number, q.code, q.ranges_key, q.revoked_on, q.revoked_reason,
+                least(cs.lapses_on, q.revoked_on) AS lapses_on, cs.last_evidence
+           FROM qualifications q
+           JOIN continuity_states cs ON cs.welder_id = q.welder_id AND cs.process = q.process AND cs.code = q.code
+          WHERE ${crewScope} AND q.welder_id = p.welder_id AND q.ranges_key = ANY ($3::text[] || $4::text[])
+            AND ($5::text IS NULL OR q.code = $5) AND q.certified_on <= $6::date
+            AND ${scoreOf(klassOf('q', 'cs'), 'least(cs.lapses_on, q.revoked_on)')} = p.score
+          ORDER BY q.number LIMIT 1
+       ) b
      )
-     SELECT (SELECT count(*) FROM best WHERE klass = 0)::int AS "crewTotal",
-            (SELECT count(*) FROM best WHERE klass > 0)::int AS "nearTotal",
-            (SELECT json_agg(${rowJson} ORDER BY x.klass, x.lapses_on DESC, x.stamp) FROM shown x WHERE x.klass = 0 AND x.n <= $9) AS crew,
-            (SELECT json_agg(${rowJson} ORDER BY x.klass, x.lapses_on DESC, x.stamp) FROM shown x WHERE x.klass > 0 AND x.n <= $10) AS near`,
-    [f.organizationId, f.process, f.fitting, f.oneOff, f.code, f.today, f.through, f.shopIds, f.crewLimit, f.nearLimit],
+     SELECT (SELECT count(*) FROM ranked WHERE klass = 0)::int AS "crewTotal",
+            (SELECT count(*) FROM ranked WHERE klass > 0)::int AS "nearTotal",
+            (SELECT json_agg(${rowJson} ORDER BY x.score, x.stamp) FROM shown x WHERE x.klass = 0) AS crew,
+            (SELECT json_agg(${rowJson} ORDER BY x.score, x.stamp) FROM shown x WHERE x.klass > 0) AS near`,
+    [
+      f.organizationId, f.process, f.fitting, f.oneOff, f.code, f.today, f.through, f.shopIds,
+      f.crewLimit, f.crewOffset, f.nearLimit, f.nearOffset,
+    ],
   );
   return { crewTotal: row?.crewTotal ?? 0, nearTotal: row?.nearTotal ?? 0, crew: row?.crew ?? [], near: row?.near ?? [] };
 }

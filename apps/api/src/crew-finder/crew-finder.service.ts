@@ -2,12 +2,14 @@
 // nearly may. A welder is on the crew when a qualification of theirs (not superseded) has the joint within
 // its ranges (jointWithin, every position the joint is welded in) and stays in force through the last day
 // by the maintained continuity state (lapses_on after it, no revocation by then) — exactly when
-// qualified-on answers yes both today and on that day. Sorted by who stays qualified longest. A near miss
+// qualified-on answers yes both today and on that day. Sorted by who stays qualified longest; one page
+// of each list is returned (limit/offset, nearLimit/nearOffset) with the exact totals. A near miss
 // is a welder kept off by one reason: a lapse inside the range, one variable out of range (with its
 // clause), a lapse already passed (a renewal test brings it back), or a revocation.
 import {
   addDays,
   codeNames,
+  CREW_PAGE_DEFAULT,
   lapseRules,
   RULES_VERSION,
   type CodeId,
@@ -24,8 +26,6 @@ import { companyToday } from '../settings/settings.repository.js';
 import { describeJoint, jointAgainst, QUALIFIED_ON_NOTICE, revocationClause } from '../qualified-on/qualified-on.service.js';
 import * as repo from './crew-finder.repository.js';
 
-const CREW_LIMIT = 200;
-const NEAR_LIMIT = 100;
 /** The furthest a range may reach: a year ahead. */
 const MAX_DAYS_AHEAD = 366;
 
@@ -72,6 +72,12 @@ export async function findCrew(deps: AppDeps, actor: Actor, input: CrewFinderInp
     if (within) fitting.push(key);
     else if (new Set(reasons.map((r) => r.variable)).size === 1 && reasons[0]) oneOff.set(key, reasons[0]);
   }
+  const page = {
+    limit: input.limit ?? CREW_PAGE_DEFAULT,
+    offset: input.offset ?? 0,
+    nearLimit: input.nearLimit ?? CREW_PAGE_DEFAULT,
+    nearOffset: input.nearOffset ?? 0,
+  };
   const rows = await repo.crewRows(deps.dataSource.manager, {
     organizationId: actor.organizationId,
     process: input.process,
@@ -81,8 +87,10 @@ export async function findCrew(deps: AppDeps, actor: Actor, input: CrewFinderInp
     through,
     fitting,
     oneOff: [...oneOff.keys()],
-    crewLimit: CREW_LIMIT,
-    nearLimit: NEAR_LIMIT,
+    crewLimit: page.limit,
+    crewOffset: page.offset,
+    nearLimit: page.nearLimit,
+    nearOffset: page.nearOffset,
   });
   const qualificationOf = (r: repo.CrewRow) => ({
     ...r.qualification,
@@ -101,6 +109,8 @@ export async function findCrew(deps: AppDeps, actor: Actor, input: CrewFinderInp
     },
     crew: {
       total: rows.crewTotal,
+      offset: page.offset,
+      limit: page.limit,
       items: rows.crew.map((r) => ({
         welder: r.welder,
         qualification: qualificationOf(r),
@@ -110,6 +120,8 @@ export async function findCrew(deps: AppDeps, actor: Actor, input: CrewFinderInp
     },
     nearMisses: {
       total: rows.nearTotal,
+      offset: page.nearOffset,
+      limit: page.nearLimit,
       items: rows.near.map((r) => nearMiss(r, qualificationOf(r), oneOff, input.process, today, through)),
     },
     rulesVersion: RULES_VERSION,

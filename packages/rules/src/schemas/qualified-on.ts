@@ -275,6 +275,10 @@ export type QualifiedOnAnswer = z.infer<typeof qualifiedOnAnswerSchema>;
 
 // ---- the crew finder ----------------------------------------------------------------------------------
 
+/** Rows per page of the crew finder: the default, and the most one request may ask for. */
+export const CREW_PAGE_DEFAULT = 50;
+export const CREW_PAGE_MAX = 1000;
+
 /** GET /api/crew-finder?process=&code=&shopId=&through=&form=&weld=&position=&… — through: the range's last day (default today). */
 export const crewFinderQueryFields = z
   .object({
@@ -282,6 +286,11 @@ export const crewFinderQueryFields = z
     code: codeIdSchema.optional(),
     shopId: z.string().uuid('Not a valid shop').optional(),
     through: isoDateSchema.optional(),
+    /** A page of the crew (longest in force first) and a page of the near misses; totals are exact. */
+    limit: z.coerce.number().int('A whole number').min(1, 'At least 1').max(CREW_PAGE_MAX, `At most ${CREW_PAGE_MAX}`).optional(),
+    offset: z.coerce.number().int('A whole number').min(0, 'Not below 0').optional(),
+    nearLimit: z.coerce.number().int('A whole number').min(1, 'At least 1').max(CREW_PAGE_MAX, `At most ${CREW_PAGE_MAX}`).optional(),
+    nearOffset: z.coerce.number().int('A whole number').min(0, 'Not below 0').optional(),
     ...jointQueryFields,
   })
   .strict();
@@ -293,6 +302,10 @@ export const crewFinderQuery = crewFinderQueryFields.transform((q, ctx) => {
     ...(q.code ? { code: q.code } : {}),
     ...(q.shopId ? { shopId: q.shopId } : {}),
     ...(q.through ? { through: q.through } : {}),
+    ...(q.limit !== undefined ? { limit: q.limit } : {}),
+    ...(q.offset !== undefined ? { offset: q.offset } : {}),
+    ...(q.nearLimit !== undefined ? { nearLimit: q.nearLimit } : {}),
+    ...(q.nearOffset !== undefined ? { nearOffset: q.nearOffset } : {}),
     joint: j.joint,
     positions: j.positions,
   };
@@ -333,8 +346,8 @@ export const crewFinderAnswerSchema = z.object({
     positions: z.array(z.enum(weldingPositions)),
     description: z.string(),
   }),
-  crew: z.object({ total: z.number().int(), items: z.array(crewMemberSchema) }),
-  nearMisses: z.object({ total: z.number().int(), items: z.array(nearMissSchema) }),
+  crew: z.object({ total: z.number().int(), offset: z.number().int(), limit: z.number().int(), items: z.array(crewMemberSchema) }),
+  nearMisses: z.object({ total: z.number().int(), offset: z.number().int(), limit: z.number().int(), items: z.array(nearMissSchema) }),
   rulesVersion: z.string(),
   notice: z.string(),
 });
