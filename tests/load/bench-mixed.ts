@@ -142,12 +142,13 @@ try {
   const shop = shops.find((sh) => sh.id === cells[0]!.shopId);
   const [coupon] = await query<{ welderId: string; shopId: string; procedureId: string }>(
     `SELECT w.id AS "welderId", w.home_shop_id AS "shopId", p.id AS "procedureId"
-       FROM welders w JOIN procedures p ON p.organization_id = w.organization_id AND p.code = 'asme-ix' AND 'SMAW' = ANY (p.processes)
+       FROM welders w JOIN procedures p ON p.organization_id = w.organization_id AND p.code = 'asme-ix' AND 'SMAW' = ANY (p.processes) AND p.status = 'active'
       WHERE w.active ORDER BY w.stamp LIMIT 1`,
   );
   const couponJson = JSON.stringify(couponBody(coupon!));
   let nextCell = 0;
   let refusal = '';
+  let couponRefusal = '';
   type Ctx = { cell?: (typeof cells)[number] };
 
   const statuses = new Map<string, Map<number, number>>();
@@ -212,7 +213,10 @@ try {
       path: '/api/coupons',
       headers: json,
       body: couponJson,
-      onResponse: count('coupon save'),
+      onResponse: (status: number, body: string) => {
+        count('coupon save')(status);
+        if (status !== 201 && !couponRefusal) couponRefusal = body.slice(0, 300);
+      },
     },
     get('welder file', `/api/welders/${coupon!.welderId}`),
   ];
@@ -237,6 +241,7 @@ try {
     console.log(`  ${name.padEnd(28)} ${[...m].map(([s, n]) => `${s}×${n}`).join('  ')}`);
   const ok = result.errors === 0 && result.timeouts === 0 && result['5xx'] === 0 && result['4xx'] === 0;
   if (refusal) console.log(`  first refused month save: ${refusal}`);
+  if (couponRefusal) console.log(`  first refused coupon save: ${couponRefusal}`);
   console.log(ok ? '  target met: 0 errors, 0 5xx, every answer 2xx' : '  TARGET MISSED');
   process.exitCode = ok ? 0 : 1;
 } finally {
