@@ -40,6 +40,7 @@ import { LinkMailOutbox1767300000000 } from './migrations/1767300000000-link-mai
 import { PendingUploads1767400000000 } from './migrations/1767400000000-pending-uploads.js';
 import { CombinationQualifications1767000000001 } from './migrations/1767000000001-combination-qualifications.js';
 import { ProductionWelds1767200000000 } from './migrations/1767200000000-production-welds.js';
+import { WeldFlagNotices1767210000000 } from './migrations/1767210000000-weld-flag-notices.js';
 import { WeldEntity, WeldPassEntity } from '../welds/weld.entity.js';
 import { CompanySettingsEntity } from '../settings/company-settings.entity.js';
 import { LapseNoticeEntity, LapseWatchRunEntity, NoticeDeliveryEntity } from '../lapse-watch/lapse-watch.entity.js';
@@ -67,7 +68,7 @@ export const entities = [
   WeldEntity,
   WeldPassEntity,
 ];
-export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001, CouponEvaluation1765300000000, WpqNumbers1765400000000, ExaminationParts1766200000000, InvitationsPerCompany1766400000000, ReviewDecision1766100000000, PaperRecords1767500000000, QualificationRangesKey1767100000000, RetestLink1767000000000, LinkMailOutbox1767300000000, PendingUploads1767400000000, CombinationQualifications1767000000001, CrewCoveringIndex1767100000001, ProductionWelds1767200000000];
+export const migrations = [Foundation1764633600000, Records1764720000000, Continuity1764806400000, LapseWatch1764892800000, ContinuityIndexes1764979200000, LapseDelivery1765200000000, ImportsAndApiTokens1765700000000, Sessions1765500000000, ImportPhase1765700000001, SignInThrottle1765500000001, CouponEvaluation1765300000000, WpqNumbers1765400000000, ExaminationParts1766200000000, InvitationsPerCompany1766400000000, ReviewDecision1766100000000, PaperRecords1767500000000, QualificationRangesKey1767100000000, RetestLink1767000000000, LinkMailOutbox1767300000000, PendingUploads1767400000000, CombinationQualifications1767000000001, CrewCoveringIndex1767100000001, ProductionWelds1767200000000, WeldFlagNotices1767210000000];
 
 export interface DataSourceOptions {
   /** Pool size; the API default suits one instance on a small machine. */

@@ -6,7 +6,7 @@
 //      runs out if this process dies, so another sender takes over),
 //   2. re-check each one against the records as they are now and drop those that no longer apply
 //      (status 'superseded', with the reason),
-//   3. send one digest e-mail with the rest,
+//   3. send one digest e-mail with the rest (the lapses, then the welds newly flagged by a re-check),
 //   4. record the SMTP server's acceptance and message id in one statement straight away, or the failure
 //      with its backoff (15 min × 2^attempts, given up after MAX_SEND_ATTEMPTS).
 //
@@ -18,7 +18,7 @@ import { setTimeout as sleep } from 'node:timers/promises';
 import type { AppDeps } from '../lib/context.js';
 import { todayIn } from '../lib/dates.js';
 import { settingsOfCompanies } from '../settings/settings.repository.js';
-import { digestMail, type DigestItem } from './digest-mail.js';
+import { digestMail, type DigestItem, type DigestWeld } from './digest-mail.js';
 import * as repo from './lapse-watch.repository.js';
 
 export type SenderDeps = Pick<AppDeps, 'config' | 'dataSource' | 'mailer' | 'logger' | 'clock'>;
@@ -48,6 +48,13 @@ export interface SendOptions {
 function itemsOf(lines: repo.ClaimedLine[]): DigestItem[] {
   const seen = new Map<string, DigestItem>();
   for (const l of lines) if (!seen.has(l.qualificationId)) seen.set(l.qualificationId, l);
+  return [...seen.values()];
+}
+
+/** One entry per weld in a digest, even when two re-checks flagged it before the digest went. */
+function weldsOf(lines: repo.ClaimedWeldLine[]): DigestWeld[] {
+  const seen = new Map<string, DigestWeld>();
+  for (const l of lines) if (!seen.has(l.weldId)) seen.set(l.weldId, l);
   return [...seen.values()];
 }
 
@@ -93,7 +100,9 @@ export async function sendDueNotices(deps: SenderDeps, opts: SendOptions = {}): 
     if (claimed.length === 0) continue;
     await opts.afterClaim?.(claimed);
 
-    const lines = await repo.recheckClaimed(db, token, today);
+    const lapseLines = await repo.recheckClaimed(db, token, today);
+    const weldLines = await repo.recheckClaimedWelds(db, token);
+    const lines = [...lapseLines, ...weldLines];
     const stale = lines.filter((l) => l.stale !== null);
     await repo.markSuperseded(
       db,
@@ -112,7 +121,8 @@ export async function sendDueNotices(deps: SenderDeps, opts: SendOptions = {}): 
       companyName: nameOf.get(organizationId) ?? '',
       asOf: today,
       appUrl: deps.config.appUrl,
-      items: itemsOf(live),
+      items: itemsOf(lapseLines.filter((l) => l.stale === null)),
+      welds: weldsOf(weldLines.filter((l) => l.stale === null)),
     });
 
     let messageId: string;

@@ -66,7 +66,9 @@ export const LapseNoticeEntity = new EntitySchema<LapseNoticeRow>({
 /** One notice to one recipient: sent in a digest, or pending with its retry state. */
 export interface NoticeDeliveryRow {
   id: string;
-  noticeId: string;
+  /** A lapse notice, or (weldNoticeId) a weld flagged by a re-check: exactly one of the two. */
+  noticeId: string | null;
+  weldNoticeId: string | null;
   userId: string;
   email: string;
   status: 'pending' | 'sent' | 'failed' | 'superseded';
@@ -89,7 +91,8 @@ export const NoticeDeliveryEntity = new EntitySchema<NoticeDeliveryRow>({
   tableName: 'notice_deliveries',
   columns: {
     id: col.id(),
-    noticeId: col.uuid('notice_id'),
+    noticeId: col.uuid('notice_id', true),
+    weldNoticeId: col.uuid('weld_notice_id', true),
     userId: col.uuid('user_id'),
     email: col.text('email'),
     status: col.text('status'),

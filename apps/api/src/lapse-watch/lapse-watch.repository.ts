@@ -3,6 +3,7 @@
 // or a second instance never duplicates one; digests claim their deliveries with FOR UPDATE SKIP LOCKED.
 import type { EntityManager } from 'typeorm';
 import type { LapseWatchRun } from '@beadroll/rules';
+import type { DigestWeld } from './digest-mail.js';
 
 export interface ScanWindow {
   organizationId: string;
@@ -94,13 +95,19 @@ export async function writeNotices(
 }
 
 /**
- * Who is told about a welder: the company's active QA managers, and the active foremen of the welder's
- * home shop as it is now (SQL condition on users `u` and welders `w`).
+ * Who is told about a shop's work: the company's active QA managers, and the active foremen of the shop
+ * (SQL condition on users `u`, given the company and shop expressions).
  */
-export const supervisesSql = (u: string, w: string) => `(${u}.active AND ${u}.organization_id = ${w}.organization_id
+const supervisesShopSql = (u: string, org: string, shop: string) => `(${u}.active AND ${u}.organization_id = ${org}
   AND (${u}.role = 'qa_manager'
        OR (${u}.role = 'foreman'
-           AND EXISTS (SELECT 1 FROM foreman_shops fs WHERE fs.user_id = ${u}.id AND fs.shop_id = ${w}.home_shop_id))))`;
+           AND EXISTS (SELECT 1 FROM foreman_shops fs WHERE fs.user_id = ${u}.id AND fs.shop_id = ${shop}))))`;
+
+/** Who is told about a welder: as above, for the welder's home shop as it is now (users `u`, welders `w`). */
+export const supervisesSql = (u: string, w: string) => supervisesShopSql(u, `${w}.organization_id`, `${w}.home_shop_id`);
+
+/** Who is told about a weld: as above, for the shop the weld was made in (users `u`, welds `wd`). */
+const supervisesWeldSql = (u: string, wd: string) => supervisesShopSql(u, `${wd}.organization_id`, `${wd}.shop_id`);
 
 /** A pending delivery of each given notice to each of its recipients (none twice). */
 export async function addDeliveries(db: EntityManager, noticeIds: string[], now: Date): Promise<void> {
@@ -224,7 +231,56 @@ export async function addNewSupervisors(db: EntityManager, organizationIds: stri
      ON CONFLICT ON CONSTRAINT notice_deliveries_once_key DO NOTHING`,
     [organizationIds, now],
   );
+  await db.query(
+    weldDeliveriesSql(`($1::uuid[] IS NULL OR n.organization_id = ANY($1::uuid[]))
+        AND n.id IN (SELECT d.weld_notice_id FROM notice_deliveries d WHERE d.status = 'pending')`),
+    [organizationIds, now],
+  );
 }
+
+/** A pending delivery (at $2) of the weld notices `n` matching `where` to each supervisor of the weld's shop. */
+const weldDeliveriesSql = (where: string) =>
+  `INSERT INTO notice_deliveries (weld_notice_id, user_id, email, status, attempts, next_attempt_at)
+   SELECT n.id, u.id, u.email, 'pending', 0, $2
+     FROM weld_flag_notices n
+     JOIN welds wd ON wd.id = n.weld_id
+     JOIN users u ON ${supervisesWeldSql('u', 'wd')}
+    WHERE ${where}
+   ON CONFLICT ON CONSTRAINT notice_deliveries_weld_once_key DO NOTHING`;
+
+/**
+ * Notices of welds that a re-check has just flagged, written in the re-check's transaction, with a
+ * pending delivery to each supervisor of the weld's shop. One per weld and flag: a weld flagged, cleared
+ * and flagged again is told about again.
+ */
+export async function insertWeldFlagNotices(
+  db: EntityManager,
+  organizationId: string,
+  weldIds: string[],
+  flaggedAt: Date,
+  cause: string,
+): Promise<number> {
+  if (weldIds.length === 0) return 0;
+  const created = await db.query<{ id: string }[]>(
+    `INSERT INTO weld_flag_notices (organization_id, weld_id, flagged_at, cause, created_at)
+     SELECT $1, x.id, $3, $4, $3 FROM unnest($2::uuid[]) AS x(id)
+     ON CONFLICT ON CONSTRAINT weld_flag_notices_once_key DO NOTHING
+     RETURNING id`,
+    [organizationId, weldIds, flaggedAt, cause],
+  );
+  if (created.length === 0) return 0;
+  await db.query(
+    weldDeliveriesSql(`n.id = ANY($1::uuid[])`),
+    [created.map((c) => c.id), flaggedAt],
+  );
+  return created.length;
+}
+
+// A delivery is of a lapse notice (n) or of a weld notice (wn); its company is that notice's.
+const deliveriesWithCompany = `notice_deliveries d
+  LEFT JOIN lapse_notices n ON n.id = d.notice_id
+  LEFT JOIN weld_flag_notices wn ON wn.id = d.weld_notice_id`;
+const deliveryCompany = `coalesce(n.organization_id, wn.organization_id)`;
 
 /** (company, recipient) pairs with deliveries due at `now` and not claimed by a live sender. */
 export async function dueRecipients(
@@ -233,11 +289,11 @@ export async function dueRecipients(
   now: Date,
 ): Promise<{ organizationId: string; userId: string }[]> {
   return db.query(
-    `SELECT DISTINCT n.organization_id AS "organizationId", d.user_id AS "userId"
-       FROM notice_deliveries d JOIN lapse_notices n ON n.id = d.notice_id
+    `SELECT DISTINCT ${deliveryCompany} AS "organizationId", d.user_id AS "userId"
+       FROM ${deliveriesWithCompany}
       WHERE d.status = 'pending' AND d.next_attempt_at <= $2
         AND (d.claimed_until IS NULL OR d.claimed_until <= $2)
-        AND ($1::uuid[] IS NULL OR n.organization_id = ANY($1::uuid[]))
+        AND ($1::uuid[] IS NULL OR ${deliveryCompany} = ANY($1::uuid[]))
       ORDER BY 1, 2`,
     [organizationIds, now],
   );
@@ -257,8 +313,8 @@ export async function claimDue(
 ): Promise<string[]> {
   const rows = await db.query<{ id: string }[]>(
     `WITH c AS (
-       SELECT d.id FROM notice_deliveries d JOIN lapse_notices n ON n.id = d.notice_id
-        WHERE d.user_id = $2 AND n.organization_id = $1 AND d.status = 'pending' AND d.next_attempt_at <= $4
+       SELECT d.id FROM ${deliveriesWithCompany}
+        WHERE d.user_id = $2 AND ${deliveryCompany} = $1 AND d.status = 'pending' AND d.next_attempt_at <= $4
           AND (d.claimed_until IS NULL OR d.claimed_until <= $4)
         FOR UPDATE OF d SKIP LOCKED),
      u AS (UPDATE notice_deliveries d SET claim_token = $3, claimed_until = $4::timestamptz + $5 * interval '1 millisecond'
@@ -318,6 +374,39 @@ export async function recheckClaimed(db: EntityManager, token: string, today: st
       WHERE d.claim_token = $1 AND d.status = 'pending'
       ORDER BY n.lapses_on, w.stamp, q.process, n.threshold`,
     [token, today],
+  );
+}
+
+/** A claimed weld delivery: the weld as the digest shows it, to whom, and why it no longer applies (or null). */
+export type ClaimedWeldLine = DigestWeld & { deliveryId: string; email: string; recipientName: string; stale: string | null };
+
+/**
+ * The claimed weld deliveries, re-checked just before sending: the recipient still active and
+ * supervising the weld's shop, and the weld still flagged and waiting for a disposition.
+ */
+export async function recheckClaimedWelds(db: EntityManager, token: string): Promise<ClaimedWeldLine[]> {
+  return db.query<ClaimedWeldLine[]>(
+    `SELECT d.id AS "deliveryId", u.email, u.name AS "recipientName", wd.id AS "weldId",
+            wd.job_reference AS "jobReference", wd.weld_number AS "weldNumber",
+            to_char(wd.welded_on, 'YYYY-MM-DD') AS "weldedOn", s.name AS "shopName", n.cause,
+            coalesce((SELECT json_agg(json_build_object('stamp', w.stamp, 'name', w.name, 'process', p.process,
+                                                        'reasons', p.reasons) ORDER BY p.position)
+                        FROM weld_passes p JOIN welders w ON w.id = p.welder_id
+                       WHERE p.weld_id = wd.id AND NOT p.qualified), '[]') AS passes,
+            CASE
+              WHEN NOT u.active THEN 'The recipient is no longer active'
+              WHEN NOT ${supervisesWeldSql('u', 'wd')} THEN 'The recipient no longer supervises the weld''s shop'
+              WHEN NOT wd.flagged THEN 'The weld is no longer flagged'
+              WHEN wd.review_status IS DISTINCT FROM 'pending' THEN 'The weld has a disposition'
+            END AS stale
+       FROM notice_deliveries d
+       JOIN users u ON u.id = d.user_id
+       JOIN weld_flag_notices n ON n.id = d.weld_notice_id
+       JOIN welds wd ON wd.id = n.weld_id
+       JOIN shops s ON s.id = wd.shop_id
+      WHERE d.claim_token = $1 AND d.status = 'pending'
+      ORDER BY wd.welded_on, wd.job_reference, wd.weld_number`,
+    [token],
   );
 }
 

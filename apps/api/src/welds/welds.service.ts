@@ -21,6 +21,7 @@ import { recordAudit } from '../lib/audit.js';
 import { isUniqueViolation } from '../lib/db-errors.js';
 import { companyToday } from '../settings/settings.repository.js';
 import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
+import { insertWeldFlagNotices } from '../lapse-watch/lapse-watch.repository.js';
 import { lockPairs, refreshContinuityPairs, type PairKey } from '../continuity/continuity-state.repository.js';
 import { qualifiedOnInCompany } from '../qualified-on/qualified-on.service.js';
 import * as repo from './welds.repository.js';
@@ -257,7 +258,10 @@ export async function recheckWelds(
       before: { flagged: !f.flagged },
       after: { flagged: f.flagged, cause },
     });
-  return flips.filter((f) => f.flagged).map((f) => f.id);
+  const flagged = flips.filter((f) => f.flagged).map((f) => f.id);
+  // Raised in the lapse-watch digest too, committed with the re-check (issue 12, "Re-checking").
+  await insertWeldFlagNotices(db, actor.organizationId, flagged, at, cause);
+  return flagged;
 }
 
 async function companyName(deps: AppDeps, actor: Actor): Promise<string> {
