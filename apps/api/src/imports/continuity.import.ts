@@ -10,6 +10,7 @@
 import { gridSaveInput } from '@beadroll/rules';
 import { refreshContinuityPairs } from '../continuity/continuity-state.repository.js';
 import { recordLapseMoves } from '../lapse-watch/lapse-events.js';
+import { recheckWelds } from '../welds/welds.service.js';
 import {
   addZodIssues,
   batches,
@@ -134,7 +135,26 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
     report: findings.report(sheet.rows.length),
     async apply(db, tick: Tick) {
       let done = 0;
+      // Entries the import re-dates: the welds their old day kept in force are re-checked below.
+      const moved: { welderId: string; process: string; from: string }[] = [];
       for (const b of batches(writes, 5000)) {
+        const before = await db.query<{ welderId: string; process: string; from: string }[]>(
+          `SELECT e.welder_id AS "welderId", e.process, to_char(least(e.used_on, u.used_on), 'YYYY-MM-DD') AS "from"
+             FROM unnest($2::uuid[], $3::uuid[], $4::text[], $5::date[], $6::date[]) AS u(welder_id, shop_id, process, month, used_on)
+             JOIN continuity_entries e ON e.organization_id = $1 AND e.welder_id = u.welder_id AND e.shop_id = u.shop_id
+                                      AND e.process = u.process AND e.month = u.month
+            WHERE e.used_on <> u.used_on
+              FOR UPDATE OF e`,
+          [
+            actor.organizationId,
+            b.map((c) => c.welderId),
+            b.map((c) => c.shopId),
+            b.map((c) => c.process),
+            b.map((c) => c.month),
+            b.map((c) => c.usedOn),
+          ],
+        );
+        moved.push(...before);
         await db.query(
           `INSERT INTO continuity_entries AS e
                   (organization_id, welder_id, shop_id, process, month, used_on, job_reference, note, logged_by)
@@ -167,6 +187,9 @@ async function plan(ctx: PlanContext): Promise<ImportPlan> {
       await tick('refreshing continuity', done, writes.length);
       const pairs = [...new Map(writes.map((c) => [`${c.welderId}|${c.process}`, { welderId: c.welderId, process: c.process }])).values()];
       await recordLapseMoves(db, await refreshContinuityPairs(db, pairs), ctx.clock);
+      // Like a re-dated entry of the grid: the welds from the earlier of the two days on are checked again
+      // (newly flagged ones go to the review queue and the lapse-watch digest).
+      await recheckWelds(db, actor, ctx.clock.now(), moved, 'continuity-import');
       return { written: writes.length, pairs: pairs.length };
     },
   };
