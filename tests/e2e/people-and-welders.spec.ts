@@ -58,7 +58,7 @@ describe('people and welders', () => {
     await page.getByLabel('Repeat the password').fill('shop-floor-2026');
     await page.getByRole('button', { name: 'Set password and sign in' }).click();
     await page.getByRole('button', { name: 'Sign out' }).waitFor();
-    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Procedures']);
+    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Weld log', 'Crew finder', 'Procedures']);
     await page.getByText('Structural Hall').first().waitFor();
     expect(await page.getByText('Vessel Bay').count()).toBe(0);
 

@@ -27,7 +27,7 @@ describe('signing in as each demo role', () => {
   it('QA manager: Overview · Welders · Continuity log · Coupons · Procedures · Shops · People · Lapse watch · Settings · Audit trail, each screen opens, sign-out ends the session', async () => {
     const { page, context } = await newSession(browser);
     await signIn(page, demo.qa.email);
-    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Coupons', 'Procedures', 'Shops', 'People', 'Lapse watch', 'Reports', 'Imports', 'Settings', 'API tokens', 'Audit trail']);
+    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Weld log', 'Crew finder', 'Coupons', 'Procedures', 'Shops', 'People', 'Lapse watch', 'Reports', 'Imports', 'Settings', 'API tokens', 'Audit trail']);
     await page.getByRole('heading', { name: 'Overview' }).waitFor();
     await page.getByRole('banner').getByText(demo.qa.name, { exact: true }).waitFor();
 
@@ -63,7 +63,7 @@ describe('signing in as each demo role', () => {
   it("foreman: Overview · Welders · Continuity log · Procedures, the QA manager's screens refuse, and only their two shops' welders show", async () => {
     const { page, context } = await newSession(browser);
     await signIn(page, demo.foreman.email);
-    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Procedures']);
+    expect(await mainNavigation(page)).toEqual(['Overview', 'Welders', 'Continuity log', 'Weld log', 'Crew finder', 'Procedures']);
 
     for (const [path, heading] of [
       ['/shops', 'Shops'],

@@ -67,6 +67,7 @@ export function createRouter(queryClient: QueryClient) {
         { path: paths.continuity.path, lazy: page(() => import('./routes/app/continuity')) },
         { path: paths.welds.path, lazy: page(() => import('./routes/app/welds')) },
         { path: paths.weld.path, lazy: page(() => import('./routes/app/weld')) },
+        { path: paths.crewFinder.path, lazy: page(() => import('./routes/app/crew-finder')) },
         { path: paths.lapseWatch.path, lazy: page(() => import('./routes/app/lapse-watch')) },
         { path: paths.settings.path, lazy: page(() => import('./routes/app/settings')) },
         { path: paths.imports.path, lazy: page(() => import('./routes/app/imports')) },

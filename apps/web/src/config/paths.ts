@@ -67,6 +67,11 @@ export const paths = {
     title: 'Weld',
     href: (id: string) => `/welds/${encodeURIComponent(id)}`,
   },
+  crewFinder: {
+    path: '/crew-finder',
+    title: 'Crew finder',
+    href: (search?: string) => (search ? `/crew-finder?${search}` : '/crew-finder'),
+  },
   lapseWatch: { path: '/lapse-watch', title: 'Lapse watch', href: () => '/lapse-watch' },
   settings: { path: '/settings', title: 'Settings', href: () => '/settings' },
   imports: { path: '/imports', title: 'Import', href: () => '/imports' },

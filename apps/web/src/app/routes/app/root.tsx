@@ -26,6 +26,7 @@ export function navigationFor(me: Me): NavItem[] {
         { label: 'Welders', to: paths.welders.href() },
         { label: 'Continuity log', to: paths.continuity.href() },
         { label: 'Weld log', to: paths.welds.href() },
+        { label: 'Crew finder', to: paths.crewFinder.href() },
         { label: 'Coupons', to: paths.coupons.href() },
         { label: 'Procedures', to: paths.procedures.href() },
         { label: 'Shops', to: paths.shops.href() },
@@ -43,6 +44,7 @@ export function navigationFor(me: Me): NavItem[] {
         { label: 'Welders', to: paths.welders.href() },
         { label: 'Continuity log', to: paths.continuity.href() },
         { label: 'Weld log', to: paths.welds.href() },
+        { label: 'Crew finder', to: paths.crewFinder.href() },
         { label: 'Procedures', to: paths.procedures.href() },
       ];
     case 'welder':
