@@ -219,8 +219,10 @@ describe('qualifications (WPQs)', () => {
       ).items.map((i) => i.id);
     expect(await ids('current')).toEqual([current.id]);
     expect(await ids('lapsed')).toEqual([lapsed.id]);
-    // The card lists only current and lapsing qualifications.
-    const card = await qa.get(`/api/welders/${world.weldersA[0]!.id}/card.pdf`).expect(200);
+    // The card lists only current and lapsing qualifications: none for the welder whose only one lapsed
+    // (issue 10 item 8), one for the welder with a current one.
+    expect((await qa.get(`/api/welders/${world.weldersA[0]!.id}/card.pdf`)).status).toBe(409);
+    const card = await qa.get(`/api/welders/${world.weldersB[0]!.id}/card.pdf`).expect(200);
     expect(card.headers['content-type']).toBe('application/pdf');
   });
 });

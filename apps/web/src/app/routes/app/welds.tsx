@@ -4,7 +4,7 @@
 // their qualifications, and each weld checked again by the server when saved (flagged, never refused).
 // The QA manager sees the welds waiting for a disposition above the job.
 import { processes, weldJointWords, weldLayerNames, type Weld, type WeldWelder } from '@beadroll/rules';
-import { useQueries, useQuery } from '@tanstack/react-query';
+import { useQuery } from '@tanstack/react-query';
 import { useEffect, useMemo, useState } from 'react';
 import { Link, useBlocker, useSearchParams } from 'react-router-dom';
 import { Button } from '@/components/ui/button';
@@ -221,12 +221,14 @@ function NewWelds({ shopId, job, lastNumber }: { shopId: string; job: string; la
     () => [...new Set(rows.flatMap((r) => [r.stamp, r.fillStamp]).map((s) => s.trim().toUpperCase()).filter(Boolean))],
     [rows],
   );
-  const found = useQueries({ queries: stamps.map((s) => weldQueries.welders(shopId, s)) });
+  // One query for all the stamps (not useQueries: that would put a query-core module only this screen
+  // uses into the framework chunk every first paint loads; see the bundle budget test).
+  const found = useQuery({ ...weldQueries.weldersByStamp(shopId, stamps), placeholderData: (previous) => previous });
   const welders = new Map<string, WeldWelder>();
-  found.forEach((f, i) => {
-    const hit = f.data?.find((w) => w.stamp.toUpperCase() === stamps[i]);
-    if (hit) welders.set(stamps[i]!, hit);
-  });
+  for (const stamp of stamps) {
+    const hit = found.data?.[stamp];
+    if (hit) welders.set(stamp, hit);
+  }
   const all = useQuery(weldQueries.welders(shopId, ''));
 
   const dirty = rows.some((r) => !state[r.key]?.saved && (r.weldNumber.trim() || r.stamp.trim() || r.thickness.trim()));

@@ -1,4 +1,4 @@
-import { weldDetailSchema, weldPageSchema, weldWelderListSchema, type weldListQuery } from '@beadroll/rules';
+import { weldDetailSchema, weldPageSchema, weldWelderListSchema, type WeldWelder, type weldListQuery } from '@beadroll/rules';
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import type { z } from 'zod';
 import { apiRequest } from '@/lib/api-client';
@@ -35,6 +35,22 @@ export const weldQueries = {
     queryOptions({
       queryKey: [...weldQueries.all(), 'welders', shopId, q] as const,
       queryFn: async ({ signal }) => (await apiRequest('/api/welds/welders', weldWelderListSchema, { signal, query: { shopId, q } })).items,
+      staleTime: 60_000,
+    }),
+  /** The welder of each stamp (exact match, case-insensitive), looked up one stamp per request. */
+  weldersByStamp: (shopId: string, stamps: string[]) =>
+    queryOptions({
+      queryKey: [...weldQueries.all(), 'welders-by-stamp', shopId, stamps] as const,
+      queryFn: async ({ signal }) => {
+        const lists = await Promise.all(
+          stamps.map((q) => apiRequest('/api/welds/welders', weldWelderListSchema, { signal, query: { shopId, q } })),
+        );
+        const found: Record<string, WeldWelder | undefined> = {};
+        stamps.forEach((stamp, i) => {
+          found[stamp] = lists[i]!.items.find((w) => w.stamp.toUpperCase() === stamp);
+        });
+        return found;
+      },
       staleTime: 60_000,
     }),
 };
