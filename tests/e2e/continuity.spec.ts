@@ -297,7 +297,7 @@ describe('my qualifications', () => {
     await page.getByRole('heading', { name: 'My qualifications' }).waitFor();
     const continuity = page.getByRole('region', { name: /Continuity: days left/ });
     await continuity.waitFor();
-    await continuity.getByText(/\d+ days? left · lapses on \d{4}-\d{2}-\d{2}/).first().waitFor();
+    await continuity.getByText(/\d+ days? left · lapses on \d{1,2} [A-Z][a-z]+ \d{4}/).first().waitFor();
     await continuity.getByText(/Last logged use: \d{4}-\d{2}-\d{2}/).first().waitFor();
     expect(pageErrors(page)).toEqual([]);
     await context.close();

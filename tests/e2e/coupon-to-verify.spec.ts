@@ -8,6 +8,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { PNG } from 'pngjs';
 import type { Browser, Page } from 'playwright-core';
+import { formatDay } from '@beadroll/rules';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, newSession, pageErrors } from '../support/browser.js';
 import { demo, signIn, signOut } from '../support/e2e-demo.js';
@@ -188,7 +189,7 @@ describe('from the coupon to the Verify page', () => {
     // The welder file: the new qualification with its ranges, status and the WPQ PDF.
     await page.getByRole('link', { name: 'See it in the welder file' }).click();
     await page.getByRole('heading', { name: 'Qualifications' }).waitFor();
-    const qualification = page.getByRole('article', { name: 'Qualification ASME IX · SMAW · uphill' }).filter({ hasText: `Certified on ${today}` }).first();
+    const qualification = page.getByRole('article', { name: 'Qualification ASME IX · SMAW · uphill' }).filter({ hasText: `Certified on ${formatDay(today, 'long')}` }).first();
     await qualification.getByText('Current', { exact: true }).waitFor();
     await qualification.getByText(/days left · lapses on/).waitFor();
     await qualification.getByText('F, V (flat, vertical)').first().waitFor();
@@ -263,7 +264,7 @@ describe('from the coupon to the Verify page', () => {
     const { page, context } = await newSession(browser);
     await signIn(page, demo.welder.email);
     await page.waitForURL((url) => url.pathname === '/my-qualifications');
-    const mine = page.getByRole('article', { name: 'Qualification ASME IX · SMAW · uphill' }).filter({ hasText: `Certified on ${today}` }).first();
+    const mine = page.getByRole('article', { name: 'Qualification ASME IX · SMAW · uphill' }).filter({ hasText: `Certified on ${formatDay(today, 'long')}` }).first();
     await mine.getByText('Current', { exact: true }).waitFor();
     await mine.getByRole('link', { name: 'Download the WPQ PDF' }).waitFor();
     await page.getByRole('link', { name: 'Download my wallet card (PDF)' }).waitFor();
