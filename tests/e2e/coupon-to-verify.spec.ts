@@ -201,11 +201,15 @@ describe('from the coupon to the Verify page', () => {
     // The photo is listed with the welder's files.
     await page.getByRole('link', { name: 'side-bend-1.png' }).first().waitFor();
 
-    // The verify link printed on the card, reissued and shown once.
-    await page.getByRole('button', { name: /^(Issue|Reissue) verify link$/ }).click();
-    await page.getByRole('dialog', { name: /verify link/ }).getByRole('button', { name: /^(Issue|Reissue) link$/ }).click();
+    // The verify link printed on the card, reissued and shown once. The panel shows the link in force, so
+    // a demo welder who already has one shows the old link until the reissue lands: wait for the new one.
     const link = page.getByTestId('verify-url');
-    await link.waitFor();
+    const issueButton = page.getByRole('button', { name: /^(Issue|Reissue) verify link$/ });
+    await issueButton.waitFor(); // the panel has read the link in force
+    const before = (await link.count()) > 0 ? await link.getAttribute('href') : null;
+    await issueButton.click();
+    await page.getByRole('dialog', { name: /verify link/ }).getByRole('button', { name: /^(Issue|Reissue) link$/ }).click();
+    await expect.poll(() => link.getAttribute('href'), { timeout: 15_000 }).not.toBe(before);
     verifyUrl = (await link.getAttribute('href')) ?? '';
     expect(verifyUrl).toMatch(/\/verify\/[A-Za-z0-9_-]{40,}$/);
 
@@ -280,7 +284,7 @@ describe('from the coupon to the Verify page', () => {
     await page.goto(new URL(verifyUrl).pathname);
     await page.getByRole('heading', { name: demo.welder.name }).waitFor();
     await page.getByText(demo.welder.stamp, { exact: true }).waitFor();
-    await page.getByText(`Status as of ${today}`).waitFor();
+    await page.getByText(`Status as of ${formatDay(today, 'long')}`).waitFor();
     await page.getByText('Current', { exact: true }).first().waitFor();
     expect(await page.getByRole('button', { name: 'Sign out' }).count()).toBe(0);
     expect(new URL(page.url()).pathname).toBe(new URL(verifyUrl).pathname);
