@@ -36,10 +36,21 @@ async function heldInForce(deps: AppDeps, organizationId: string, code: string, 
   );
 }
 
+/**
+ * The position a plate joint is welded in, taken from the coupon's own test position (1G/1F flat, 2G/2F
+ * horizontal, 3G/3F vertical, 4G/4F overhead), so the joint is inside the coupon's positions whichever
+ * welder holds the qualification on the day the seed runs; pipe joints are welded flat (rolled).
+ */
+function positionOf(c: Coupon): WeldInput['joint']['position'] {
+  if (c.form === 'pipe') return 'F';
+  const byDigit = { '1': 'F', '2': 'H', '3': 'V', '4': 'O' } as const;
+  return byDigit[c.position.charAt(0) as keyof typeof byDigit] ?? 'F';
+}
+
 const jointOf = (c: Coupon, over: Partial<WeldInput['joint']> = {}): WeldInput['joint'] => ({
   form: c.form,
   weld: c.weld,
-  position: c.form === 'pipe' ? 'F' : 'V',
+  position: positionOf(c),
   thickness: c.depositedThickness ?? c.thickness,
   ...(c.outsideDiameter ? { outsideDiameter: c.outsideDiameter } : {}),
   ...(c.fNumber ? { fNumber: c.fNumber } : {}),
