@@ -3,24 +3,15 @@
 import type { EntityManager } from 'typeorm';
 import type { Weld, WeldListQuery, WeldReason, WeldWelder } from '@beadroll/rules';
 import type { Actor } from '../lib/scope.js';
+import type { WeldRow } from './weld.entity.js';
 
 export const PAGE_SIZE = 100;
 
-export interface NewWeld {
-  organizationId: string;
-  shopId: string;
-  jobReference: string;
-  weldNumber: string;
-  weldedOn: string;
-  procedureId: string | null;
-  joint: object;
-  examination: object | null;
-  note: string;
-  flagged: boolean;
-  rulesVersion: string;
-  loggedBy: string;
-  at: Date;
-}
+/** A weld to insert: the row's own fields, who logged it and when. */
+export type NewWeld = Pick<
+  WeldRow,
+  'organizationId' | 'shopId' | 'jobReference' | 'weldNumber' | 'weldedOn' | 'procedureId' | 'joint' | 'examination' | 'note' | 'flagged' | 'rulesVersion'
+> & { loggedBy: string; at: Date };
 
 export interface PassCheck {
   welderId: string;
